@@ -1,0 +1,159 @@
+package eventlog
+
+import (
+	"math"
+	"testing"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+type ev struct {
+	c, a, res, life string
+	t                int64
+}
+
+func build(t *testing.T, evs []ev, opt BuildOptions, attrs map[string][]string) *Log {
+	t.Helper()
+	b := NewBuilder()
+	for i, e := range evs {
+		lc, err := b.Lifecycle([]byte(e.life))
+		require.NoError(t, err)
+		idx, err := b.Add(Event{Case: b.Case([]byte(e.c)), Activity: b.Activity([]byte(e.a)),
+			Resource: b.Resource([]byte(e.res)), Time: e.t, Life: lc, Row: int32(i + 2)})
+		require.NoError(t, err)
+		for _, key := range sortedKeys(attrs) {
+			if v := attrs[key][i]; v != "" {
+				b.SetEventValue(b.EventColumn(key, KindUnknown), idx, []byte(v))
+			}
+		}
+	}
+	l, err := b.Build(opt)
+	require.NoError(t, err)
+	return l
+}
+
+func sortedKeys(m map[string][]string) []string {
+	var ks []string
+	for k := range m {
+		ks = append(ks, k)
+	}
+	for i := range ks {
+		for j := i + 1; j < len(ks); j++ {
+			if ks[j] < ks[i] {
+				ks[i], ks[j] = ks[j], ks[i]
+			}
+		}
+	}
+	return ks
+}
+
+func names(l *Log, ids []int32) []string {
+	out := make([]string, len(ids))
+	for i, id := range ids {
+		out[i] = l.Activities.Name(id)
+	}
+	return out
+}
+
+func TestGroupingAndOrder(t *testing.T) {
+	// Rows of two cases interleaved and out of time order; b and c of case 1 share a timestamp
+	// and must keep their file order (stable sort, as the issue requires).
+	l := build(t, []ev{
+		{c: "1", a: "d", t: 40}, {c: "2", a: "a", t: 5}, {c: "1", a: "a", t: 10},
+		{c: "1", a: "b", t: 20}, {c: "1", a: "c", t: 20}, {c: "2", a: "b", t: 6},
+	}, BuildOptions{}, nil)
+	require.Equal(t, 2, l.NumCases())
+	assert.Equal(t, "1", l.CaseID(0), "cases keep the order of first appearance")
+	assert.Equal(t, []string{"a", "b", "c", "d"}, names(l, l.Trace(0)))
+	assert.Equal(t, []string{"a", "b"}, names(l, l.Trace(1)))
+	assert.Equal(t, []int32{4, 5, 6, 2}, l.Row[:4], "rows follow their events")
+	assert.Nil(t, l.InstFirst, "no lifecycle: instances are events")
+	first, last, ok := l.CaseSpan(0)
+	assert.True(t, ok)
+	assert.Equal(t, int64(10), first)
+	assert.Equal(t, int64(40), last)
+}
+
+func TestUntimedEventsKeepTheirPlace(t *testing.T) {
+	l := build(t, []ev{
+		{c: "1", a: "a", t: 30}, {c: "1", a: "x", t: NoTime}, {c: "1", a: "b", t: 10},
+	}, BuildOptions{}, nil)
+	// x follows a in the file and has no time: it moves with a.
+	assert.Equal(t, []string{"b", "a", "x"}, names(l, l.Trace(0)))
+	assert.Equal(t, 1, l.Untimed)
+}
+
+func TestLifecyclePairing(t *testing.T) {
+	// Two overlapping instances of a (FIFO pairing), a suspend that forms no instance, a start
+	// never completed, a complete with no start.
+	l := build(t, []ev{
+		{c: "1", a: "a", life: "start", t: 1},
+		{c: "1", a: "a", life: "start", t: 2},
+		{c: "1", a: "b", life: "complete", t: 3},
+		{c: "1", a: "a", life: "suspend", t: 4},
+		{c: "1", a: "a", life: "complete", t: 5},
+		{c: "1", a: "a", life: "complete", t: 6},
+		{c: "1", a: "c", life: "start", t: 7},
+	}, BuildOptions{}, nil)
+	require.NotNil(t, l.InstFirst)
+	assert.Equal(t, []string{"a", "a", "b", "c"}, names(l, l.Trace(0)))
+	assert.Equal(t, []int32{0, 1, 2, 6}, l.InstFirst)
+	assert.Equal(t, []int32{4, 5, 2, 6}, l.InstLast)
+}
+
+func TestVariants(t *testing.T) {
+	l := build(t, []ev{
+		{c: "1", a: "a", t: 1}, {c: "1", a: "b", t: 2},
+		{c: "2", a: "a", t: 1}, {c: "2", a: "c", t: 2},
+		{c: "3", a: "a", t: 1}, {c: "3", a: "c", t: 2},
+	}, BuildOptions{}, nil)
+	require.Len(t, l.Variants, 2)
+	assert.Equal(t, []string{"a", "c"}, names(l, l.Variants[0].Activities), "most frequent first")
+	assert.Equal(t, []int32{1, 2}, l.Variants[0].Cases)
+	assert.Equal(t, []int32{1, 0, 0}, l.CaseVariant)
+}
+
+func TestAttributeTyping(t *testing.T) {
+	evs := []ev{{c: "1", a: "a", t: 1}, {c: "1", a: "b", t: 2}, {c: "2", a: "a", t: 3}, {c: "2", a: "b", t: 4}}
+	l := build(t, evs, BuildOptions{LiftCaseAttributes: true}, map[string][]string{
+		"amount":  {"1.50", "2", "", "-3e2"},
+		"code":    {"007", "12", "1", "2"},
+		"urgent":  {"true", "FALSE", "true", "false"},
+		"due":     {"2024-01-05", "2024-01-06", "2024-01-07", "2024-01-08"},
+		"region":  {"north", "north", "south", "south"},
+		"comment": {"x", "", "y", "z"},
+	})
+	kinds := map[string]Kind{}
+	for _, c := range l.EventAttrs {
+		kinds[c.Key] = c.Kind
+	}
+	assert.Equal(t, map[string]Kind{"amount": KindNumber, "code": KindString, "urgent": KindBool,
+		"due": KindTime, "comment": KindString}, kinds)
+	region := l.CaseAttr("region")
+	require.NotNil(t, region, "a value constant within each case is lifted to the case")
+	assert.Equal(t, []string{"north", "south"}, []string{region.Dict.Name(region.Str[0]), region.Dict.Name(region.Str[1])})
+	amount := l.EventAttr("amount")
+	assert.Equal(t, 1.5, amount.Num[0])
+	assert.True(t, math.IsNaN(amount.Num[2]))
+	txt, ok := amount.Text(0)
+	assert.True(t, ok)
+	assert.Equal(t, "1.50", txt, "typing keeps the text as written")
+	assert.Equal(t, []int8{1, 0, 1, 0}, l.EventAttr("urgent").Bool)
+}
+
+func TestDeclaredKindsThatLie(t *testing.T) {
+	b := NewBuilder()
+	c := b.Case([]byte("1"))
+	for i, v := range []string{"12", "abc"} {
+		idx, _ := b.Add(Event{Case: c, Activity: b.Activity([]byte("a")), Time: int64(i), Resource: -1})
+		b.SetEventValue(b.EventColumn("n", KindNumber), idx, []byte(v))
+	}
+	idx, _ := b.Add(Event{Case: c, Activity: b.Activity([]byte("a")), Time: 5, Resource: -1})
+	b.SetEventValue(b.EventColumn("m", KindNumber), idx, []byte("1"))
+	b.SetEventValue(b.EventColumn("m", KindBool), idx, []byte("true"))
+	l, err := b.Build(BuildOptions{})
+	require.NoError(t, err)
+	assert.Equal(t, KindString, l.EventAttr("n").Kind, "a value that is no number keeps the column as text")
+	assert.Equal(t, KindString, l.EventAttr("m").Kind, "mixed declarations keep the column as text")
+}

@@ -1,0 +1,192 @@
+package timestamp
+
+import (
+	"testing"
+	"time"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+func micro(t *testing.T, layout, value string) int64 {
+	t.Helper()
+	tm, err := time.Parse(layout, value)
+	require.NoError(t, err)
+	return tm.UnixMicro()
+}
+
+// TestRFC3339Examples checks the examples of RFC 3339 (Klyne and Newman 2002), section 5.8,
+// against the Go standard library's time.Parse as the reference reading.
+func TestRFC3339Examples(t *testing.T) {
+	f, err := ParseFormat("YYYY-MM-DDThh:mm[:ss[.f]][Z]")
+	require.NoError(t, err)
+	for _, tc := range []struct{ name, in string }{
+		{"fraction and Z", "1985-04-12T23:20:50.52Z"},
+		{"negative offset", "1996-12-19T16:39:57-08:00"},
+		{"odd offset", "1937-01-01T12:00:27.87+00:20"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			got, ok := f.ParseString(tc.in)
+			require.True(t, ok)
+			assert.Equal(t, micro(t, time.RFC3339Nano, tc.in), got)
+		})
+	}
+	// RFC 3339 section 5.8: "1990-12-31T23:59:60Z" is the leap second at the end of 1990; time.Parse
+	// refuses it, and we read it as the instant one second after 23:59:59.
+	got, ok := f.ParseString("1990-12-31T23:59:60Z")
+	require.True(t, ok)
+	assert.Equal(t, micro(t, time.RFC3339, "1991-01-01T00:00:00Z"), got)
+	// Section 5.8, the same leap second written in US Pacific time.
+	got2, ok := f.ParseString("1990-12-31T15:59:60-08:00")
+	require.True(t, ok)
+	assert.Equal(t, got, got2)
+}
+
+// TestXSDateTime checks forms of xs:dateTime (W3C XML Schema Part 2, 2004, section 3.2.7), the
+// type of XES date attributes (IEEE 1849-2016, section 5.3.3).
+func TestXSDateTime(t *testing.T) {
+	f, err := ParseFormat("YYYY-MM-DDThh:mm[:ss[.f]][Z]")
+	require.NoError(t, err)
+	for _, tc := range []struct{ name, in, want string }{
+		// Section 3.2.7.4 (order relation): 2002-10-10T12:00:00-05:00 is 2002-10-10T17:00:00Z.
+		{"offset", "2002-10-10T12:00:00-05:00", "2002-10-10T17:00:00Z"},
+		// Section 3.2.7: "2002-10-10T24:00:00" (end of day) is the next day's midnight (1.0 errata; ISO 8601 also allows it).
+		{"end of day", "2002-10-10T24:00:00Z", "2002-10-11T00:00:00Z"},
+		{"no zone read as UTC", "2002-10-10T12:00:00", "2002-10-10T12:00:00Z"},
+		{"millis", "2010-12-30T11:02:00.000+01:00", "2010-12-30T10:02:00Z"},
+		{"nanos truncated to micros", "2010-12-30T11:02:00.123456789Z", "2010-12-30T11:02:00.123456Z"},
+		{"leap day", "2024-02-29T00:00:00Z", "2024-02-29T00:00:00Z"},
+		{"before 1970", "1901-12-13T20:45:52Z", "1901-12-13T20:45:52Z"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			got, ok := f.ParseString(tc.in)
+			require.True(t, ok)
+			assert.Equal(t, micro(t, time.RFC3339Nano, tc.want), got)
+			assert.Equal(t, tc.want, FormatRFC3339(got))
+		})
+	}
+	for _, bad := range []string{"2023-02-29T00:00:00Z", "2024-13-01T00:00:00Z", "2024-01-01T25:00:00Z",
+		"2024-01-01T24:00:01Z", "2024-01-01T10:60:00Z", "2024-01-01T10:00:00+25:00", "2024-1-01T10:00:00Z",
+		"2024-01-01T10:00:00Zjunk", "", "   "} {
+		_, ok := f.ParseString(bad)
+		assert.False(t, ok, bad)
+	}
+}
+
+func TestLayouts(t *testing.T) {
+	for _, tc := range []struct{ layout, in, want string }{
+		{"YYYY-MM-DD hh:mm[:ss]", "2024-03-05 07:08", "2024-03-05T07:08:00Z"},
+		{"YYYY-MM-DD hh:mm[:ss]", "2024-03-05 07:08:09", "2024-03-05T07:08:09Z"},
+		{"D.M.YYYY[ h:mm[:ss]]", "5.3.2024 7:08", "2024-03-05T07:08:00Z"},
+		{"D/M/YYYY[ h:mm[:ss]]", "05/03/2024", "2024-03-05T00:00:00Z"},
+		{"M/D/YYYY h:mm[:ss] AP", "3/5/2024 7:08 PM", "2024-03-05T19:08:00Z"},
+		{"M/D/YYYY h:mm[:ss] AP", "3/5/2024 12:08:01 am", "2024-03-05T00:08:01Z"},
+		{"M/D/YYYY h:mm[:ss] AP", "3/5/2024 12:00 PM", "2024-03-05T12:00:00Z"},
+		{"YYYY-MM-DD hh:mm:ss,f", "2024-03-05 07:08:09,5", "2024-03-05T07:08:09.5Z"},
+		{"YYYYMMDDhhmmss", "20240305070809", "2024-03-05T07:08:09Z"},
+		{"YYYY-MM-DDThh:mm:ssZ", "2024-03-05T07:08:09+0130", "2024-03-05T05:38:09Z"},
+		{"YYYY-MM-DDThh:mm:ssZ", "2024-03-05T07:08:09-01", "2024-03-05T08:08:09Z"},
+		{"epoch-s", "1709622489", "2024-03-05T07:08:09Z"},
+		{"epoch-s", "1709622489.25", "2024-03-05T07:08:09.25Z"},
+		{"epoch-ms", "1709622489250", "2024-03-05T07:08:09.25Z"},
+	} {
+		t.Run(tc.layout+"/"+tc.in, func(t *testing.T) {
+			f, err := ParseFormat(tc.layout)
+			require.NoError(t, err)
+			got, ok := f.ParseString(tc.in)
+			require.True(t, ok)
+			assert.Equal(t, tc.want, FormatRFC3339(got))
+		})
+	}
+}
+
+func TestBadLayouts(t *testing.T) {
+	for _, l := range []string{"hh:mm", "YYYY-MM", "[YYYY-MM-DD", "YYYY-MM-DD]", "YYYY-MM-DD hh AP"} {
+		_, err := ParseFormat(l)
+		assert.ErrorIs(t, err, ErrLayout, l)
+	}
+}
+
+func TestInfer(t *testing.T) {
+	for _, tc := range []struct {
+		name      string
+		sample    []string
+		want      string
+		ambiguous bool
+	}{
+		{"iso", []string{"2024-03-05T07:08:09Z", "2024-03-06T10:00:00.5+01:00"}, "YYYY-MM-DDThh:mm[:ss[.f]][Z]", false},
+		{"iso space", []string{"2024-03-05 07:08:09", "2024-03-06 10:00"}, "YYYY-MM-DD hh:mm[:ss[.f]][Z]", false},
+		{"day first by sample", []string{"05/03/2024 10:00", "25/03/2024 11:00"}, "D/M/YYYY[ h:mm[:ss[.f]]]", false},
+		{"month first by sample", []string{"03/05/2024 10:00", "03/25/2024 11:00"}, "M/D/YYYY[ h:mm[:ss[.f]]]", false},
+		{"ambiguous", []string{"05/03/2024", "06/03/2024"}, "D/M/YYYY[ h:mm[:ss[.f]]]", true},
+		{"german", []string{"5.3.2024 10:00", "31.12.2024 23:59:59"}, "D.M.YYYY[ h:mm[:ss[.f]]]", false},
+		{"epoch seconds", []string{"1709622489", "1709622600"}, "epoch-s", false},
+		{"epoch millis", []string{"1709622489000", "1709622600123"}, "epoch-ms", false},
+		{"amounts are not epochs", []string{"1200", "15"}, "", false},
+		{"one bad value in twenty still infers", append(repeat("2024-03-05", 19), "n/a"), "YYYY-MM-DD", false},
+		{"text", []string{"Register", "Inspect"}, "", false},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			inf := Infer(tc.sample)
+			if tc.want == "" {
+				assert.Nil(t, inf.Format)
+				return
+			}
+			require.NotNil(t, inf.Format)
+			assert.Equal(t, tc.want, inf.Format.String())
+			assert.Equal(t, tc.ambiguous, inf.Ambiguous)
+		})
+	}
+}
+
+func repeat(s string, n int) []string {
+	out := make([]string, n)
+	for i := range out {
+		out[i] = s
+	}
+	return out
+}
+
+// TestDaysFromCivil compares the calendar arithmetic with the standard library on every day of
+// 1600-2400 (time.Date as the reference).
+func TestDaysFromCivil(t *testing.T) {
+	for d := time.Date(1600, 1, 1, 0, 0, 0, 0, time.UTC); d.Year() < 2400; d = d.AddDate(0, 0, 1) {
+		got := daysFromCivil(int64(d.Year()), int64(d.Month()), int64(d.Day()))
+		if got*86400 != d.Unix() {
+			t.Fatalf("%v: got %d days", d, got)
+		}
+	}
+}
+
+func FuzzParse(f *testing.F) {
+	f.Add("YYYY-MM-DDThh:mm[:ss[.f]][Z]", "2024-03-05T07:08:09.123+01:00")
+	f.Add("M/D/YYYY h:mm[:ss] AP", "3/5/2024 7:08 PM")
+	f.Add("epoch-ms", "1709622489250")
+	f.Fuzz(func(t *testing.T, layout, value string) {
+		fm, err := ParseFormat(layout)
+		if err != nil {
+			return
+		}
+		fm.ParseString(value) // must not panic
+	})
+}
+
+func BenchmarkParseISO(b *testing.B) {
+	f, _ := ParseFormat("YYYY-MM-DDThh:mm[:ss[.f]][Z]")
+	in := []byte("2024-03-05T07:08:09.123+01:00")
+	b.SetBytes(int64(len(in)))
+	b.ReportAllocs()
+	for b.Loop() {
+		f.Parse(in)
+	}
+}
+
+// BenchmarkTimeParse is the standard library reading the same text, side by side with ParseISO.
+func BenchmarkTimeParse(b *testing.B) {
+	in := "2024-03-05T07:08:09.123+01:00"
+	b.SetBytes(int64(len(in)))
+	b.ReportAllocs()
+	for b.Loop() {
+		_, _ = time.Parse(time.RFC3339Nano, in)
+	}
+}
