@@ -590,3 +590,9 @@ func (l *Log) groupVariants() {
 		l.CaseVariant[c] = rank[v]
 	}
 }
+
+// HasCase reports whether a case id was interned already.
+func (b *Builder) HasCase(id string) bool {
+	_, ok := b.log.Cases.Lookup(id)
+	return ok
+}

@@ -1,0 +1,340 @@
+package intake
+
+import (
+	"bytes"
+	"context"
+	"fmt"
+	"io"
+
+	"tracewright/core/eventlog"
+	"tracewright/core/timestamp"
+)
+
+// CSVOptions steer ReadCSV. The zero value sniffs everything and stops at the first bad row.
+type CSVOptions struct {
+	// Comma is the field separator; 0 sniffs it from the start of the file.
+	Comma byte
+	// Header says whether the first row names the columns.
+	Header HeaderMode
+	// Mapping names the columns of each role; an empty role is guessed (see SniffCSV).
+	Mapping Mapping
+	// TimeFormat is the layout of the time and start columns (see package timestamp); "" infers
+	// it from the sample.
+	TimeFormat string
+	// OnError is Stop (the default) or Skip (set bad rows aside, count and report them).
+	OnError Policy
+	// MaxReported caps the rows kept in Problems.First (default 20).
+	MaxReported int
+	// Size is the input's length in bytes if known, for progress.
+	Size int64
+	// Progress, when set, is called as the reader advances (at most every megabyte read).
+	Progress func(Progress)
+}
+
+// Progress is how far a reader has come.
+type Progress struct {
+	Bytes  int64 `json:"bytes"`
+	Total  int64 `json:"total"` // 0 when unknown
+	Events int   `json:"events"`
+}
+
+// Report says how a file was read: what was decided about it and what was set aside.
+type Report struct {
+	Format   string    `json:"format"` // "csv" or "xes"
+	Rows     int       `json:"rows"`   // data rows (CSV) or <event> elements (XES) read
+	Events   int       `json:"events"`
+	Bytes    int64     `json:"bytes"`
+	Problems *Problems `json:"problems"`
+	CSV      *Sniff    `json:"csv,omitempty"`
+	Warnings []string  `json:"warnings,omitempty"`
+}
+
+// ReadCSV reads an event log from CSV text. It first sniffs the opening SampleBytes (separator,
+// header, roles and time format, each overridden by opt), then streams the rest: fields are
+// interned straight from the read buffer and timestamps parsed without allocation.
+//
+// A row without a case id, activity or readable timestamp, or with the wrong number of fields,
+// stops the read with a *RowError (opt.OnError == Stop) or is set aside and reported (Skip). A
+// broken quote stops the read with a *SyntaxError under either policy. Cancelling ctx stops the
+// read at the next buffer refill with ctx's error.
+func ReadCSV(ctx context.Context, r io.Reader, opt CSVOptions) (*eventlog.Log, *Report, error) {
+	head := make([]byte, SampleBytes)
+	n, err := io.ReadFull(r, head)
+	if err != nil && err != io.ErrUnexpectedEOF && err != io.EOF {
+		return nil, nil, err
+	}
+	head = head[:n]
+	sn, err := SniffCSV(head, opt.Comma, opt.Header)
+	if err != nil {
+		return nil, nil, err
+	}
+	rep := &Report{Format: "csv", Problems: newProblems(opt.MaxReported), CSV: sn}
+	m := mergeMapping(opt.Mapping, sn.Mapping)
+	sn.Mapping = m
+	idx, err := resolve(sn.Columns, m)
+	if err != nil {
+		return nil, rep, err
+	}
+	layout := opt.TimeFormat
+	if layout == "" {
+		layout = sn.TimeFormat
+		if sn.TimeAmbiguous {
+			rep.Warnings = append(rep.Warnings, fmt.Sprintf("dates could be read day-first (%s) or month-first (%s); read day-first: set the time format to change it", sn.TimeFormat, sn.TimeAlternative))
+		}
+	}
+	if layout == "" {
+		return nil, rep, fmt.Errorf("%w: no timestamp format reads the column %q; give one", ErrRoles, m.Time)
+	}
+	tf, err := timestamp.ParseFormat(layout)
+	if err != nil {
+		return nil, rep, err
+	}
+	sn.TimeFormat = layout
+
+	all := io.MultiReader(bytes.NewReader(head), r)
+	rr := newRecords(ctx, all, sn.Comma[0], 4<<20)
+	b := eventlog.NewBuilder()
+	if opt.Size > 0 && len(head) > 0 {
+		// Estimate the rows from the sample's density, so the columns are allocated about once.
+		lines := bytes.Count(head, []byte{'\n'}) + 1
+		b.Grow(int(opt.Size / int64(len(head)) * int64(lines) * eventsPerRow(idx)))
+	}
+	var lastReport int64
+	rr.onRefill = func(read int64) {
+		if opt.Progress != nil && read-lastReport >= 1<<20 {
+			lastReport = read
+			opt.Progress(Progress{Bytes: read, Total: opt.Size, Events: b.NumEvents()})
+		}
+	}
+	rr.skipBOM()
+	if sn.Header {
+		if _, err := rr.next(); err != nil {
+			return nil, rep, err
+		}
+	}
+	var attrCols []int // the handles of attribute columns, by source column (-1: not an attribute)
+	for j := range sn.Columns {
+		h := -1
+		if idx.attr[j] {
+			h = b.EventColumn(sn.Columns[j], eventlog.KindUnknown)
+		}
+		attrCols = append(attrCols, h)
+	}
+	lcStart, _ := b.Lifecycle([]byte("start"))
+	lcComplete, _ := b.Lifecycle([]byte("complete"))
+	width := len(sn.Columns)
+	for {
+		fs, err := rr.next()
+		if err != nil {
+			return nil, rep, err
+		}
+		if fs == nil {
+			break
+		}
+		rep.Rows++
+		line := rr.recLine
+		bad := func(col int, cause error) *RowError {
+			e := &RowError{Line: line, Err: cause}
+			if col >= 0 {
+				e.Column = sn.Columns[col]
+				if col < len(fs) {
+					e.Value = string(fs[col])
+				}
+			}
+			return e
+		}
+		var rowErr *RowError
+		var t, st int64 = 0, eventlog.NoTime
+		switch {
+		case len(fs) != width:
+			rowErr = &RowError{Line: line, Err: fmt.Errorf("%w: %d, the header has %d", ErrFieldCount, len(fs), width)}
+		case len(bytes.TrimSpace(fs[idx.cas])) == 0:
+			rowErr = bad(idx.cas, ErrNoCase)
+		case len(bytes.TrimSpace(fs[idx.act])) == 0:
+			rowErr = bad(idx.act, ErrNoActivity)
+		case len(bytes.TrimSpace(fs[idx.time])) == 0:
+			rowErr = bad(idx.time, ErrNoTime)
+		default:
+			var ok bool
+			if t, ok = tf.Parse(fs[idx.time]); !ok {
+				rowErr = bad(idx.time, ErrBadTime)
+			} else if idx.start >= 0 && len(bytes.TrimSpace(fs[idx.start])) > 0 {
+				if st, ok = tf.Parse(fs[idx.start]); !ok {
+					rowErr = bad(idx.start, ErrBadTime)
+				}
+			}
+		}
+		if rowErr != nil {
+			if opt.OnError == Stop {
+				return nil, rep, rowErr
+			}
+			rep.Problems.add(rowErr)
+			continue
+		}
+		c := b.Case(fs[idx.cas])
+		a := b.Activity(fs[idx.act])
+		res := int32(-1)
+		if idx.res >= 0 {
+			res = b.Resource(fs[idx.res])
+		}
+		var lc uint8
+		if idx.life >= 0 {
+			if lc, err = b.Lifecycle(fs[idx.life]); err != nil {
+				return nil, rep, &RowError{Line: line, Column: sn.Columns[idx.life], Value: string(fs[idx.life]), Err: fmt.Errorf("%w: %w", ErrLifecycle, err)}
+			}
+		}
+		if st != eventlog.NoTime {
+			if _, err := b.Add(eventlog.Event{Case: c, Activity: a, Resource: res, Time: st, Life: lcStart, Row: int32(line)}); err != nil {
+				return nil, rep, err
+			}
+			lc = lcComplete
+		}
+		ev, err := b.Add(eventlog.Event{Case: c, Activity: a, Resource: res, Time: t, Life: lc, Row: int32(line)})
+		if err != nil {
+			return nil, rep, err
+		}
+		for j, h := range attrCols {
+			if h >= 0 && len(fs[j]) > 0 {
+				b.SetEventValue(h, ev, fs[j])
+				if st != eventlog.NoTime {
+					b.SetEventValue(h, ev-1, fs[j])
+				}
+			}
+		}
+	}
+	rep.Bytes = rr.read
+	if opt.Progress != nil {
+		opt.Progress(Progress{Bytes: rr.read, Total: opt.Size, Events: b.NumEvents()})
+	}
+	if b.NumEvents() == 0 {
+		if rep.Problems.Skipped > 0 {
+			return nil, rep, fmt.Errorf("%w: all %d rows were set aside; first: %v", ErrNoEvents, rep.Problems.Skipped, rep.Problems.First[0])
+		}
+		return nil, rep, ErrNoEvents
+	}
+	b.SetMeta(eventlog.Meta{Format: "csv"})
+	l, err := b.Build(eventlog.BuildOptions{LiftCaseAttributes: true})
+	if err != nil {
+		return nil, rep, err
+	}
+	rep.Events = l.NumEvents()
+	return l, rep, nil
+}
+
+type columnIndexes struct {
+	cas, act, time, start, res, life int
+	attr                             []bool
+}
+
+func eventsPerRow(idx columnIndexes) int64 {
+	if idx.start >= 0 {
+		return 2
+	}
+	return 1
+}
+
+// mergeMapping takes the user's choices and fills what they left empty from the guess.
+func mergeMapping(user, guess Mapping) Mapping {
+	m := user
+	if m.Case == "" {
+		m.Case = guess.Case
+	}
+	if m.Activity == "" {
+		m.Activity = guess.Activity
+	}
+	if m.Time == "" {
+		m.Time = guess.Time
+	}
+	// Optional roles are guessed only when the user chose none of the required ones by hand: a
+	// user who names the time column has said what the time is.
+	if user.Case == "" && user.Activity == "" && user.Time == "" {
+		if m.Start == "" {
+			m.Start = guess.Start
+		}
+		if m.Resource == "" {
+			m.Resource = guess.Resource
+		}
+		if m.Lifecycle == "" {
+			m.Lifecycle = guess.Lifecycle
+		}
+	} else if m.Resource == "" {
+		m.Resource = guess.Resource
+	}
+	return m
+}
+
+// resolve finds each role's column and checks the mapping is usable.
+func resolve(cols []string, m Mapping) (columnIndexes, error) {
+	idx := columnIndexes{attr: make([]bool, len(cols))}
+	var err error
+	find := func(role Role, name string, required bool) int {
+		if err != nil {
+			return -1
+		}
+		if name == "" {
+			if required {
+				err = fmt.Errorf("%w: no column was found for the %s; name one (columns: %s)", ErrRoles, role, list(cols))
+			}
+			return -1
+		}
+		j := columnIndex(cols, name)
+		if j < 0 {
+			err = fmt.Errorf("%w: the %s column %q is not in the file (columns: %s)", ErrRoles, role, name, list(cols))
+		}
+		return j
+	}
+	idx.cas = find(RoleCase, m.Case, true)
+	idx.act = find(RoleActivity, m.Activity, true)
+	idx.time = find(RoleTime, m.Time, true)
+	idx.start = find(RoleStart, m.Start, false)
+	idx.res = find(RoleResource, m.Resource, false)
+	idx.life = find(RoleLifecycle, m.Lifecycle, false)
+	if err != nil {
+		return idx, err
+	}
+	if idx.start >= 0 && idx.life >= 0 {
+		return idx, fmt.Errorf("%w: a start column and a lifecycle column cannot both be given", ErrRoles)
+	}
+	used := map[int]Role{}
+	for _, p := range []struct {
+		r Role
+		j int
+	}{{RoleCase, idx.cas}, {RoleActivity, idx.act}, {RoleTime, idx.time}, {RoleStart, idx.start}, {RoleResource, idx.res}, {RoleLifecycle, idx.life}} {
+		if p.j < 0 {
+			continue
+		}
+		if other, dup := used[p.j]; dup {
+			return idx, fmt.Errorf("%w: column %q is given as both %s and %s", ErrRoles, cols[p.j], other, p.r)
+		}
+		used[p.j] = p.r
+	}
+	ignore := map[int]bool{}
+	for _, name := range m.Ignore {
+		if j := columnIndex(cols, name); j >= 0 {
+			ignore[j] = true
+		} else {
+			return idx, fmt.Errorf("%w: the column to ignore %q is not in the file", ErrRoles, name)
+		}
+	}
+	for j := range cols {
+		_, role := used[j]
+		idx.attr[j] = !role && !ignore[j]
+	}
+	return idx, nil
+}
+
+// list joins names for a message, capped at ten.
+func list(names []string) string {
+	var b bytes.Buffer
+	for i, n := range names {
+		if i == 10 {
+			fmt.Fprintf(&b, " and %d more", len(names)-10)
+			break
+		}
+		if i > 0 {
+			b.WriteString(", ")
+		}
+		fmt.Fprintf(&b, "%q", n)
+	}
+	return b.String()
+}

@@ -1,0 +1,250 @@
+package intake
+
+import (
+	"bytes"
+	"context"
+	"io"
+)
+
+// records splits CSV text (RFC 4180) into records of fields, without allocating per record.
+//
+// Fields of a line that holds no quote are slices of the read buffer, found with bytes.IndexByte
+// (vectorised natively, a plain loop in wasm); a line with a quote goes through a byte-by-byte
+// state machine that unescapes into a scratch buffer. The slices are valid until the next call.
+//
+// Beyond RFC 4180 it accepts LF as well as CRLF line ends, a UTF-8 byte-order mark, and a quote
+// inside an unquoted field (kept as written: exports write 28" wheels). It refuses a quoted field
+// followed by anything but a separator or a line end, and a quoted field left open at the end.
+type records struct {
+	r     io.Reader
+	ctx   context.Context
+	comma byte
+	buf   []byte
+	pos   int // start of the unread part of buf
+	end   int // end of the data in buf
+	eof   bool
+	err   error
+
+	line    int   // 1-based line where the next record starts
+	read    int64 // bytes consumed from r
+	fields  [][]byte
+	scratch []byte
+	bounds  []int
+	recLine int // line where the current record started
+
+	onRefill func(read int64)
+}
+
+const minRead = 1 << 20
+
+func newRecords(ctx context.Context, r io.Reader, comma byte, size int) *records {
+	if size < minRead {
+		size = minRead
+	}
+	return &records{r: r, ctx: ctx, comma: comma, buf: make([]byte, size), line: 1}
+}
+
+// fill moves the unread part to the front and reads more. It reports false at the end of input.
+func (rr *records) fill() bool {
+	if rr.eof {
+		return false
+	}
+	if rr.ctx != nil {
+		if err := rr.ctx.Err(); err != nil {
+			rr.err = err
+			return false
+		}
+	}
+	if rr.pos > 0 {
+		copy(rr.buf, rr.buf[rr.pos:rr.end])
+		rr.end -= rr.pos
+		rr.pos = 0
+	}
+	if rr.end == len(rr.buf) {
+		nb := make([]byte, 2*len(rr.buf))
+		copy(nb, rr.buf[:rr.end])
+		rr.buf = nb
+	}
+	for {
+		n, err := rr.r.Read(rr.buf[rr.end:])
+		rr.end += n
+		rr.read += int64(n)
+		if err == io.EOF {
+			rr.eof = true
+			break
+		}
+		if err != nil {
+			rr.err = err
+			return false
+		}
+		if n > 0 {
+			break
+		}
+	}
+	if rr.onRefill != nil {
+		rr.onRefill(rr.read)
+	}
+	return true
+}
+
+// skipBOM drops a UTF-8 byte-order mark at the very start.
+func (rr *records) skipBOM() {
+	for rr.end-rr.pos < 3 && rr.fill() {
+	}
+	if bytes.HasPrefix(rr.buf[rr.pos:rr.end], []byte("\xef\xbb\xbf")) {
+		rr.pos += 3
+	}
+}
+
+// next returns the next record's fields, or nil at the end (then rr.err says whether it was a
+// failure). Empty lines are passed over, as encoding/csv does.
+func (rr *records) next() ([][]byte, error) {
+	for {
+		if rr.pos >= rr.end && !rr.fill() {
+			return nil, rr.err
+		}
+		data := rr.buf[rr.pos:rr.end]
+		nl := bytes.IndexByte(data, '\n')
+		if nl < 0 && !rr.eof {
+			if rr.fill() {
+				continue
+			}
+			if rr.err != nil {
+				return nil, rr.err
+			}
+			data = rr.buf[rr.pos:rr.end]
+		}
+		line := data
+		if nl >= 0 {
+			line = data[:nl]
+		}
+		consumed := len(line)
+		if nl >= 0 {
+			consumed++
+		}
+		if len(line) > 0 && line[len(line)-1] == '\r' {
+			line = line[:len(line)-1]
+		}
+		if len(line) == 0 {
+			rr.pos += consumed
+			rr.line++
+			if nl < 0 && rr.eof {
+				return nil, nil
+			}
+			continue
+		}
+		rr.recLine = rr.line
+		if bytes.IndexByte(line, '"') < 0 {
+			rr.fields = rr.fields[:0]
+			for {
+				i := bytes.IndexByte(line, rr.comma)
+				if i < 0 {
+					rr.fields = append(rr.fields, line)
+					break
+				}
+				rr.fields = append(rr.fields, line[:i])
+				line = line[i+1:]
+			}
+			rr.pos += consumed
+			rr.line++
+			return rr.fields, nil
+		}
+		fields, n, lines, err := rr.quoted(data)
+		if err != nil {
+			return nil, err
+		}
+		if n < 0 { // the record runs past the buffer: read more and try again
+			if !rr.fill() {
+				if rr.err != nil {
+					return nil, rr.err
+				}
+				// rr.quoted reports the unclosed quote when it sees eof.
+			}
+			continue
+		}
+		rr.pos += n
+		rr.line += lines
+		return fields, nil
+	}
+}
+
+// quoted parses one record that contains a quote. It returns n = -1 when the record is not
+// complete in data and more input may follow; lines is how many line ends the record consumed.
+func (rr *records) quoted(data []byte) (fields [][]byte, n, lines int, err error) {
+	rr.scratch = rr.scratch[:0]
+	rr.bounds = rr.bounds[:0]
+	i, lineStart := 0, 0
+	for {
+		fieldStart := len(rr.scratch)
+		if i < len(data) && data[i] == '"' {
+			openLine, openCol := rr.recLine+lines, i-lineStart+1
+			i++
+			for {
+				j := bytes.IndexByte(data[i:], '"')
+				if j < 0 {
+					if !rr.eof {
+						return nil, -1, 0, nil
+					}
+					return nil, 0, 0, &SyntaxError{Line: openLine, Column: openCol, Err: ErrUnclosed}
+				}
+				seg := data[i : i+j]
+				if k := bytes.Count(seg, []byte{'\n'}); k > 0 {
+					lines += k
+					lineStart = i + bytes.LastIndexByte(seg, '\n') + 1
+				}
+				rr.scratch = append(rr.scratch, seg...)
+				i += j + 1
+				if i < len(data) && data[i] == '"' { // "" is an escaped quote
+					rr.scratch = append(rr.scratch, '"')
+					i++
+					continue
+				}
+				if i >= len(data) && !rr.eof {
+					return nil, -1, 0, nil
+				}
+				break
+			}
+			if i < len(data) && data[i] == '\r' && (i+1 == len(data) || data[i+1] == '\n') {
+				i++
+			}
+			if i < len(data) && data[i] != rr.comma && data[i] != '\n' {
+				return nil, 0, 0, &SyntaxError{Line: rr.recLine + lines, Column: i - lineStart + 1, Err: ErrQuote}
+			}
+		} else {
+			begin := i
+			for i < len(data) && data[i] != rr.comma && data[i] != '\n' {
+				i++
+			}
+			if i >= len(data) && !rr.eof {
+				return nil, -1, 0, nil
+			}
+			seg := data[begin:i]
+			if len(seg) > 0 && seg[len(seg)-1] == '\r' && (i >= len(data) || data[i] == '\n') {
+				seg = seg[:len(seg)-1]
+			}
+			rr.scratch = append(rr.scratch, seg...)
+		}
+		rr.bounds = append(rr.bounds, fieldStart, len(rr.scratch))
+		if i >= len(data) {
+			break
+		}
+		if data[i] == '\n' {
+			i++
+			lines++
+			break
+		}
+		i++ // the separator; a separator at the very end leaves one empty field
+		if i >= len(data) {
+			if !rr.eof {
+				return nil, -1, 0, nil
+			}
+			rr.bounds = append(rr.bounds, len(rr.scratch), len(rr.scratch))
+			break
+		}
+	}
+	rr.fields = rr.fields[:0]
+	for k := 0; k < len(rr.bounds); k += 2 {
+		rr.fields = append(rr.fields, rr.scratch[rr.bounds[k]:rr.bounds[k+1]])
+	}
+	return rr.fields, i, lines, nil
+}
