@@ -70,6 +70,11 @@ func ReadCSV(ctx context.Context, r io.Reader, opt CSVOptions) (*eventlog.Log, *
 	}
 	rep := &Report{Format: "csv", Problems: newProblems(opt.MaxReported), CSV: sn}
 	m := mergeMapping(opt.Mapping, sn.Mapping)
+	if m.Time != sn.Mapping.Time || m.Start != sn.Mapping.Start {
+		// The user named the time columns: take the layout that reads most of their values.
+		sn.Mapping = m
+		sn.inferTime(0)
+	}
 	sn.Mapping = m
 	idx, err := resolve(sn.Columns, m)
 	if err != nil {
@@ -144,7 +149,7 @@ func ReadCSV(ctx context.Context, r io.Reader, opt CSVOptions) (*eventlog.Log, *
 			return e
 		}
 		var rowErr *RowError
-		var t, st int64 = 0, eventlog.NoTime
+		var t, t0, st int64 = 0, 0, eventlog.NoTime
 		switch {
 		case len(fs) != width:
 			rowErr = &RowError{Line: line, Err: fmt.Errorf("%w: %d, the header has %d", ErrFieldCount, len(fs), width)}
@@ -152,16 +157,29 @@ func ReadCSV(ctx context.Context, r io.Reader, opt CSVOptions) (*eventlog.Log, *
 			rowErr = bad(idx.cas, ErrNoCase)
 		case len(bytes.TrimSpace(fs[idx.act])) == 0:
 			rowErr = bad(idx.act, ErrNoActivity)
-		case len(bytes.TrimSpace(fs[idx.time])) == 0:
-			rowErr = bad(idx.time, ErrNoTime)
 		default:
+			// A row needs a time; with a start column, a start alone is an activity begun and
+			// not yet completed.
+			hasTime := len(bytes.TrimSpace(fs[idx.time])) > 0
+			hasStart := idx.start >= 0 && len(bytes.TrimSpace(fs[idx.start])) > 0
 			var ok bool
-			if t, ok = tf.Parse(fs[idx.time]); !ok {
-				rowErr = bad(idx.time, ErrBadTime)
-			} else if idx.start >= 0 && len(bytes.TrimSpace(fs[idx.start])) > 0 {
+			switch {
+			case !hasTime && !hasStart:
+				rowErr = bad(idx.time, ErrNoTime)
+			case hasTime:
+				if t, ok = tf.Parse(fs[idx.time]); !ok {
+					rowErr = bad(idx.time, ErrBadTime)
+				} else {
+					t0 = t
+				}
+			}
+			if rowErr == nil && hasStart {
 				if st, ok = tf.Parse(fs[idx.start]); !ok {
 					rowErr = bad(idx.start, ErrBadTime)
 				}
+			}
+			if rowErr == nil && !hasTime {
+				t0 = eventlog.NoTime
 			}
 		}
 		if rowErr != nil {
@@ -183,21 +201,26 @@ func ReadCSV(ctx context.Context, r io.Reader, opt CSVOptions) (*eventlog.Log, *
 				return nil, rep, &RowError{Line: line, Column: sn.Columns[idx.life], Value: string(fs[idx.life]), Err: fmt.Errorf("%w: %w", ErrLifecycle, err)}
 			}
 		}
+		first := -1
 		if st != eventlog.NoTime {
-			if _, err := b.Add(eventlog.Event{Case: c, Activity: a, Resource: res, Time: st, Life: lcStart, Row: int32(line)}); err != nil {
+			if first, err = b.Add(eventlog.Event{Case: c, Activity: a, Resource: res, Time: st, Life: lcStart, Row: int32(line)}); err != nil {
 				return nil, rep, err
 			}
 			lc = lcComplete
 		}
-		ev, err := b.Add(eventlog.Event{Case: c, Activity: a, Resource: res, Time: t, Life: lc, Row: int32(line)})
-		if err != nil {
-			return nil, rep, err
+		last := first
+		if t0 != eventlog.NoTime {
+			if last, err = b.Add(eventlog.Event{Case: c, Activity: a, Resource: res, Time: t, Life: lc, Row: int32(line)}); err != nil {
+				return nil, rep, err
+			}
+			if first < 0 {
+				first = last
+			}
 		}
 		for j, h := range attrCols {
 			if h >= 0 && len(fs[j]) > 0 {
-				b.SetEventValue(h, ev, fs[j])
-				if st != eventlog.NoTime {
-					b.SetEventValue(h, ev-1, fs[j])
+				for ev := first; ev <= last; ev++ {
+					b.SetEventValue(h, ev, fs[j])
 				}
 			}
 		}

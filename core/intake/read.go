@@ -67,7 +67,11 @@ func Open(r io.Reader) (io.Reader, Format, []string, error) {
 	}
 	var warnings []string
 	var out io.Reader = tr
-	switch enc := sniffEncoding(head); enc {
+	enc := sniffEncoding(head)
+	if enc == encCP1252 && Detect(head) == FormatXES {
+		enc = encUTF8 // XML declares its encoding; the XES reader honours the declaration
+	}
+	switch enc {
 	case encUTF16LE, encUTF16BE:
 		out = newUTF16Reader(tr, enc == encUTF16BE)
 		warnings = append(warnings, "the file is UTF-16 text; it was converted to UTF-8 while reading")

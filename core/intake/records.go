@@ -35,11 +35,10 @@ type records struct {
 	onRefill func(read int64)
 }
 
-const minRead = 1 << 20
-
+// newRecords reads r with a buffer of size bytes to start with (it grows for longer records).
 func newRecords(ctx context.Context, r io.Reader, comma byte, size int) *records {
-	if size < minRead {
-		size = minRead
+	if size < 16 {
+		size = 16
 	}
 	return &records{r: r, ctx: ctx, comma: comma, buf: make([]byte, size), line: 1}
 }

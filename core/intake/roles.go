@@ -125,7 +125,7 @@ func statsOf(vals []string) columnStats {
 	st.distinct = len(seen)
 	st.numberShare = float64(nums) / float64(len(vals))
 	st.lifecycleOnly = life
-	inf := timestamp.Infer(vals)
+	inf := timestamp.InferShare(vals, 0.5)
 	if inf.Format != nil {
 		st.timeShare = float64(inf.Parsed) / float64(max(1, inf.Total))
 	}
@@ -154,7 +154,9 @@ func guessRoles(cols []string, rows [][]string) ([]ColumnGuess, Mapping) {
 			continue
 		}
 		ratio := float64(s.distinct) / float64(s.n)
-		isTime := s.timeShare >= 0.95
+		// A column is taken for times when nearly all its values read as times, or when most do
+		// and its header says so (the rest are reported row by row when the file is read).
+		isTime := s.timeShare >= 0.95 || (s.timeShare >= 0.5 && nameScore(h, RoleTime)+nameScore(h, RoleStart) > 0)
 		if isTime {
 			cands = append(cands, cand{RoleTime, j, 0.6 + 0.4*nameScore(h, RoleTime) - 0.3*nameScore(h, RoleStart), "values are timestamps"})
 			if ns := nameScore(h, RoleStart); ns > 0 {
@@ -172,10 +174,10 @@ func guessRoles(cols []string, rows [][]string) ([]ColumnGuess, Mapping) {
 		cands = append(cands, cand{RoleCase, j, 0.6*nameScore(h, RoleCase) + content, "values repeat as case ids do"})
 		if s.numberShare < 0.5 {
 			act := 0.0
-			if s.distinct <= 200 && ratio <= 0.3 {
+			if s.distinct <= 200 && ratio <= 0.5 {
 				act = 0.4
-			} else if s.distinct <= 1000 && ratio <= 0.5 {
-				act = 0.2
+			} else if s.distinct <= 1000 && ratio <= 0.8 {
+				act = 0.3
 			}
 			cands = append(cands, cand{RoleActivity, j, 0.6*nameScore(h, RoleActivity) + act, "few distinct names"})
 			res := 0.0

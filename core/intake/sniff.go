@@ -39,6 +39,37 @@ type Sniff struct {
 	TimeExample       string `json:"time_example,omitempty"`
 	TimeExampleParsed string `json:"time_example_parsed,omitempty"`
 	SampleRows        int    `json:"sample_rows"`
+
+	rows [][]string // the sampled data rows
+}
+
+// inferTime sets the time format fields from the sampled values of the mapped time and start
+// columns, taking a layout that reads at least minShare of them.
+func (s *Sniff) inferTime(minShare float64) {
+	s.TimeFormat, s.TimeAmbiguous, s.TimeAlternative, s.TimeExample, s.TimeExampleParsed = "", false, "", "", ""
+	tc := columnIndex(s.Columns, s.Mapping.Time)
+	if tc < 0 {
+		return
+	}
+	vals := columnValues(s.rows, tc)
+	if sc := columnIndex(s.Columns, s.Mapping.Start); sc >= 0 {
+		vals = append(vals, columnValues(s.rows, sc)...)
+	}
+	inf := timestamp.InferShare(vals, minShare)
+	if inf.Format == nil {
+		return
+	}
+	s.TimeFormat = inf.Format.String()
+	s.TimeAmbiguous = inf.Ambiguous
+	if inf.Alternative != nil {
+		s.TimeAlternative = inf.Alternative.String()
+	}
+	for _, v := range vals {
+		if t, ok := inf.Format.ParseString(v); ok {
+			s.TimeExample, s.TimeExampleParsed = v, timestamp.FormatRFC3339(t)
+			break
+		}
+	}
 }
 
 // HeaderMode says whether the first row names the columns.
@@ -99,26 +130,8 @@ func SniffCSV(sample []byte, comma byte, header HeaderMode) (*Sniff, error) {
 	s.SampleRows = len(rows)
 	s.Preview = rows[:min(previewRows, len(rows))]
 	s.Guesses, s.Mapping = guessRoles(s.Columns, rows)
-	if tc := columnIndex(s.Columns, s.Mapping.Time); tc >= 0 {
-		vals := columnValues(rows, tc)
-		if sc := columnIndex(s.Columns, s.Mapping.Start); sc >= 0 {
-			vals = append(vals, columnValues(rows, sc)...)
-		}
-		inf := timestamp.Infer(vals)
-		if inf.Format != nil {
-			s.TimeFormat = inf.Format.String()
-			s.TimeAmbiguous = inf.Ambiguous
-			if inf.Alternative != nil {
-				s.TimeAlternative = inf.Alternative.String()
-			}
-			for _, v := range vals {
-				if t, ok := inf.Format.ParseString(v); ok {
-					s.TimeExample, s.TimeExampleParsed = v, timestamp.FormatRFC3339(t)
-					break
-				}
-			}
-		}
-	}
+	s.rows = rows
+	s.inferTime(0.5)
 	return s, nil
 }
 

@@ -42,6 +42,18 @@ const (
 
 var xsDateTime, _ = timestamp.ParseFormat("YYYY-MM-DDThh:mm[:ss[.f]][Z]")
 
+// charsetReader lets the XML decoder read the encodings XES files declare besides UTF-8. UTF-16
+// arrives here already converted by Open, so it passes through.
+func charsetReader(label string, input io.Reader) (io.Reader, error) {
+	switch strings.ToLower(label) {
+	case "utf-8", "utf8", "us-ascii", "ascii", "utf-16", "utf16", "utf-16le", "utf-16be":
+		return input, nil
+	case "iso-8859-1", "latin1", "latin-1", "iso8859-1", "windows-1252", "cp1252":
+		return newCP1252Reader(input), nil
+	}
+	return nil, fmt.Errorf("%w: the file declares the encoding %q; save it as UTF-8", ErrUnsupported, label)
+}
+
 // countingReader counts the bytes read through it, for progress over a compressed file.
 type countingReader struct {
 	r io.Reader
@@ -86,6 +98,7 @@ func ReadXES(ctx context.Context, r io.Reader, opt XESOptions) (*eventlog.Log, *
 	x := &xesReader{ctx: ctx, cr: cr, d: xml.NewDecoder(cr), opt: opt, b: eventlog.NewBuilder(),
 		rep: &Report{Format: "xes", Problems: newProblems(opt.MaxReported)}, meta: eventlog.Meta{Format: "xes"}}
 	x.d.Strict = true
+	x.d.CharsetReader = charsetReader
 	if err := x.run(); err != nil {
 		return nil, x.rep, err
 	}

@@ -45,7 +45,11 @@ const (
 // Infer finds the candidate layout that parses the most non-empty values of sample. A layout
 // counts only if it parses at least 95% of them (a few malformed values must not hide the format
 // of a column; they are reported later, row by row, when the column is read).
-func Infer(sample []string) Inference {
+func Infer(sample []string) Inference { return InferShare(sample, 0.95) }
+
+// InferShare is Infer with the least share of values the layout must parse, for a column that is
+// known to hold times (the user said so, or its header does) but has many malformed values.
+func InferShare(sample []string, minShare float64) Inference {
 	best := Inference{}
 	var fs []*Format
 	for _, c := range Candidates {
@@ -83,7 +87,7 @@ func Infer(sample []string) Inference {
 			bestK = k
 		}
 	}
-	if bestK < 0 || counts[bestK]*100 < total*95 {
+	if bestK < 0 || float64(counts[bestK]) < float64(total)*minShare {
 		if bestK >= 0 {
 			best.Parsed = counts[bestK]
 		}
