@@ -20,15 +20,9 @@ var CSVColumns = struct{ Case, Activity, Time, Resource, Lifecycle string }{
 func WriteCSV(w io.Writer, l *eventlog.Log) error {
 	bw := bufio.NewWriterSize(w, 1<<20)
 	cw := csv.NewWriter(bw)
-	hasRes := l.Resources.Len() > 0
-	hasLife := l.Lifecycles.Len() > 1
-	header := []string{CSVColumns.Case, CSVColumns.Activity, CSVColumns.Time}
-	if hasRes {
-		header = append(header, CSVColumns.Resource)
-	}
-	if hasLife {
-		header = append(header, CSVColumns.Lifecycle)
-	}
+	// The five columns are always written, empty where the log has no value, so that scripts
+	// can rely on the header.
+	header := []string{CSVColumns.Case, CSVColumns.Activity, CSVColumns.Time, CSVColumns.Resource, CSVColumns.Lifecycle}
 	used := map[string]bool{}
 	for _, h := range header {
 		used[h] = true
@@ -63,16 +57,12 @@ func WriteCSV(w io.Writer, l *eventlog.Log) error {
 			} else {
 				row = append(row, "")
 			}
-			if hasRes {
-				if r := l.Res[e]; r >= 0 {
-					row = append(row, l.Resources.Name(r))
-				} else {
-					row = append(row, "")
-				}
+			if r := l.Res[e]; r >= 0 {
+				row = append(row, l.Resources.Name(r))
+			} else {
+				row = append(row, "")
 			}
-			if hasLife {
-				row = append(row, l.Lifecycles.Name(int32(l.Life[e])))
-			}
+			row = append(row, l.Lifecycles.Name(int32(l.Life[e])))
 			for _, col := range l.CaseAttrs {
 				v, _ := col.Text(c)
 				row = append(row, v)

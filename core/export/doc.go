@@ -6,7 +6,7 @@
 // their original text (the round-trip tests in this package check it both ways).
 //
 // CSV output has one row per event with the columns case, activity, time, resource and
-// lifecycle (the last two only when the log has any), then each case attribute and each event
+// lifecycle (always, empty where the log has none), then each case attribute and each event
 // attribute under its key; times are RFC 3339 in UTC with up to six fraction digits. XES output
 // declares the concept, time, lifecycle and organizational extensions and writes each attribute
 // with its type; numbers keep their text (int when it is an integer, else float).

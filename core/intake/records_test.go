@@ -161,4 +161,3 @@ func equalRecords(a, b [][]string) bool {
 	}
 	return true
 }
-

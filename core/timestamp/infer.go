@@ -1,6 +1,22 @@
 package timestamp
 
-import "strings"
+import (
+	"strings"
+	"sync"
+)
+
+// candidateFormats compiles Candidates once, on first use; the formats are immutable.
+var candidateFormats = sync.OnceValue(func() []*Format {
+	var fs []*Format
+	for _, c := range Candidates {
+		f, err := ParseFormat(c)
+		if err != nil {
+			panic("timestamp: bad built-in layout " + c)
+		}
+		fs = append(fs, f)
+	}
+	return fs
+})
 
 // Candidates are the layouts Infer tries, most specific first. Day-first and month-first
 // layouts come in pairs that differ only in the order of D and M.
@@ -51,14 +67,7 @@ func Infer(sample []string) Inference { return InferShare(sample, 0.95) }
 // known to hold times (the user said so, or its header does) but has many malformed values.
 func InferShare(sample []string, minShare float64) Inference {
 	best := Inference{}
-	var fs []*Format
-	for _, c := range Candidates {
-		f, err := ParseFormat(c)
-		if err != nil {
-			panic("timestamp: bad built-in layout " + c)
-		}
-		fs = append(fs, f)
-	}
+	fs := candidateFormats()
 	counts := make([]int, len(fs))
 	total := 0
 	for _, s := range sample {

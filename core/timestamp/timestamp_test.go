@@ -190,3 +190,17 @@ func BenchmarkTimeParse(b *testing.B) {
 		_, _ = time.Parse(time.RFC3339Nano, in)
 	}
 }
+
+// TestISOFastPathAgrees checks the fixed-offset reader against the general matcher on many
+// values, valid and not.
+func TestISOFastPathAgrees(t *testing.T) {
+	f, _ := ParseFormat("YYYY-MM-DD hh:mm[:ss[.f]][Z]")
+	slow := &Format{layout: f.layout, items: f.items}
+	for _, s := range []string{"2024-02-29 23:59:59", "2023-02-29 10:00:00", "2024-12-31 24:00:00", "2024-01-01 10:61:00",
+		"1970-01-01 00:00:00", "2024-1x-01 10:00:00", "2024-01-01T10:00:00", "0001-01-01 00:00:00", "2024-06-30 12:34:60"} {
+		a, okA := f.ParseString(s)
+		b, okB := slow.ParseString(s)
+		assert.Equal(t, okB, okA, s)
+		assert.Equal(t, b, a, s)
+	}
+}
