@@ -57,7 +57,8 @@ func NewBuilder() *Builder {
 }
 
 // Grow reserves room for n more events, so that a reader that knows the size of its input (a CSV
-// file's bytes divided by a sampled row length) allocates the columns once.
+// file's bytes divided by a sampled row length) allocates the columns once. It covers the
+// attribute columns made so far.
 func (b *Builder) Grow(n int) {
 	b.evCase = slices.Grow(b.evCase, n)
 	b.act = slices.Grow(b.act, n)
@@ -65,11 +66,13 @@ func (b *Builder) Grow(n int) {
 	b.res = slices.Grow(b.res, n)
 	b.life = slices.Grow(b.life, n)
 	b.row = slices.Grow(b.row, n)
+	for _, c := range b.evCols {
+		c.ids = slices.Grow(c.ids, n)
+	}
 }
 
 // Case interns a case id.
 func (b *Builder) Case(id []byte) int32 { return b.log.Cases.InternBytes(id) }
-
 
 // SetEventValues sets column col of events first[i]..last[i] to keys[i] for every i, interning
 // the keys in one batch (see Dict.InternBatch). hashes and ids are scratch of len(keys).
@@ -97,7 +100,9 @@ type CaseSink struct {
 }
 
 // NewCaseSink starts handing cases and attribute values to a sink.
-func (b *Builder) NewCaseSink() *CaseSink { return &CaseSink{b: b} }
+func (b *Builder) NewCaseSink() *CaseSink {
+	return &CaseSink{b: b, cases: make([]int32, 0, cap(b.evCase))}
+}
 
 // SetCases interns keys[i] (see Dict.InternBatch) as the case of events first[i]..last[i].
 func (s *CaseSink) SetCases(first, last []int, keys [][]byte, hashes []uint64, ids []int32) {

@@ -10,7 +10,7 @@ import (
 
 type ev struct {
 	c, a, res, life string
-	t                int64
+	t               int64
 }
 
 func build(t *testing.T, evs []ev, opt BuildOptions, attrs map[string][]string) *Log {

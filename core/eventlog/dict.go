@@ -107,7 +107,9 @@ func (d *Dict) store(b []byte) string {
 		return string(b) // large values get their own allocation
 	}
 	if cap(d.chunk)-len(d.chunk) < len(b) {
-		d.chunk = make([]byte, 0, arenaChunk)
+		// Chunks double from 4 KB up to 1 MB, so a dictionary of a few names stays small.
+		size := min(arenaChunk, max(4096, 2*cap(d.chunk)))
+		d.chunk = make([]byte, 0, size)
 	}
 	start := len(d.chunk)
 	d.chunk = append(d.chunk, b...)

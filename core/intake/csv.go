@@ -105,13 +105,6 @@ func ReadCSV(ctx context.Context, r io.Reader, opt CSVOptions) (*eventlog.Log, *
 	}
 	rr := newRecords(ctx, all, sn.Comma[0], bufSize)
 	b := eventlog.NewBuilder()
-	if opt.Size > 0 && len(head) > 0 {
-		// Estimate the rows from the sample's density, so the columns are allocated about once.
-		// A 3% margin: an estimate just short makes every column grow by half again at the end.
-		lines := bytes.Count(head, []byte{'\n'}) + 1
-		rows := float64(opt.Size) / float64(len(head)) * float64(lines) * 1.03
-		b.Grow(int(rows) * int(eventsPerRow(idx)))
-	}
 	var lastReport int64
 	rr.onRefill = func(read int64) {
 		if opt.Progress != nil && read-lastReport >= 1<<20 {
@@ -132,6 +125,13 @@ func ReadCSV(ctx context.Context, r io.Reader, opt CSVOptions) (*eventlog.Log, *
 			h = b.EventColumn(sn.Columns[j], eventlog.KindUnknown)
 		}
 		attrCols = append(attrCols, h)
+	}
+	if opt.Size > 0 && len(head) > 0 {
+		// Estimate the rows from the sample's density, so the columns are allocated about once.
+		// A 3% margin: an estimate just short makes every column grow by half again at the end.
+		lines := bytes.Count(head, []byte{'\n'}) + 1
+		rows := float64(opt.Size) / float64(len(head)) * float64(lines) * 1.03
+		b.Grow(int(rows) * int(eventsPerRow(idx)))
 	}
 	pipe := newBatchPipe(b, idx.cas, attrCols)
 	defer pipe.close()

@@ -1,0 +1,121 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"flag"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+var update = flag.Bool("update", false, "rewrite the golden files")
+
+func runCLI(args ...string) (int, string, string) {
+	var out, errb bytes.Buffer
+	code := run(context.Background(), args, &out, &errb)
+	return code, out.String(), errb.String()
+}
+
+// TestInspectGolden compares `inspect` text with testdata/inspect.golden (rewrite with -update),
+// and reads the golden file twice over: the same input gives the same text.
+func TestInspectGolden(t *testing.T) {
+	code, out, errs := runCLI("inspect", "testdata/small.csv")
+	require.Equal(t, exitOK, code, errs)
+	golden := filepath.Join("testdata", "inspect.golden")
+	if *update {
+		require.NoError(t, os.WriteFile(golden, []byte(out), 0o644))
+	}
+	want, err := os.ReadFile(golden)
+	require.NoError(t, err)
+	assert.Equal(t, string(want), out)
+	_, again, _ := runCLI("inspect", "testdata/small.csv")
+	assert.Equal(t, out, again)
+}
+
+func TestInspectJSON(t *testing.T) {
+	// flags after the file, as people type them
+	code, out, errs := runCLI("inspect", "testdata/small.csv", "--json")
+	require.Equal(t, exitOK, code, errs)
+	var got map[string]any
+	require.NoError(t, json.Unmarshal([]byte(out), &got))
+	assert.Equal(t, 2.0, got["cases"])
+	assert.Equal(t, 12.0, got["events"])
+	assert.Equal(t, 4.0, got["activities"])
+	assert.Equal(t, 2.0, got["variants"])
+	read := got["read"].(map[string]any)
+	assert.Equal(t, "csv", read["format"])
+}
+
+func TestExitCodesAndMessages(t *testing.T) {
+	dir := t.TempDir()
+	bad := filepath.Join(dir, "bad.csv")
+	require.NoError(t, os.WriteFile(bad, []byte("case,activity,time\n1,a,2024-01-01\n1,b,not a date\n"), 0o644))
+	for _, tc := range []struct {
+		name string
+		args []string
+		code int
+		msg  string
+	}{
+		{"no command", nil, exitUsage, "usage"},
+		{"unknown command", []string{"frobnicate"}, exitUsage, "unknown command"},
+		{"missing file", []string{"inspect", filepath.Join(dir, "nope.csv")}, exitIO, "no such file"},
+		{"two files", []string{"inspect", "a", "b"}, exitUsage, "one log file"},
+		{"bad row names its line", []string{"inspect", bad}, exitData, `line 3, column "time": timestamp does not match the format: "not a date"`},
+		{"unknown column", []string{"inspect", bad, "--case", "nope"}, exitData, `the case column "nope" is not in the file`},
+		{"convert needs --to", []string{"convert", bad}, exitUsage, "--to"},
+		{"bad header flag", []string{"inspect", bad, "--header", "maybe"}, exitUsage, "--header"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			code, _, errs := runCLI(tc.args...)
+			assert.Equal(t, tc.code, code)
+			assert.Contains(t, errs, tc.msg)
+		})
+	}
+	code, out, _ := runCLI("inspect", bad, "--skip-bad-rows")
+	assert.Equal(t, exitOK, code)
+	assert.Contains(t, out, "1 rows set aside; line 3")
+}
+
+func TestConvert(t *testing.T) {
+	dir := t.TempDir()
+	xes := filepath.Join(dir, "small.xes")
+	code, _, errs := runCLI("convert", "testdata/small.csv", "--to", "xes", "--out", xes)
+	require.Equal(t, exitOK, code, errs)
+	_, a, _ := runCLI("inspect", "testdata/small.csv", "--json")
+	_, b, _ := runCLI("inspect", xes, "--json")
+	var ja, jb map[string]any
+	require.NoError(t, json.Unmarshal([]byte(a), &ja))
+	require.NoError(t, json.Unmarshal([]byte(b), &jb))
+	for _, k := range []string{"cases", "events", "activities", "variants", "first", "last", "activity_counts"} {
+		assert.Equal(t, ja[k], jb[k], k)
+	}
+
+	code, _, errs = runCLI("convert", "testdata/small.csv", "--to", "xes", "--out", xes)
+	assert.Equal(t, exitUsage, code)
+	assert.Contains(t, errs, "add --force")
+
+	before, _ := os.ReadFile("testdata/small.csv")
+	code, _, errs = runCLI("convert", "testdata/small.csv", "--to", "csv", "--out", "testdata/small.csv", "--force")
+	assert.Equal(t, exitUsage, code)
+	assert.Contains(t, errs, "the input is never changed")
+	after, _ := os.ReadFile("testdata/small.csv")
+	assert.Equal(t, before, after)
+
+	code, out, _ := runCLI("convert", xes, "--to", "csv")
+	assert.Equal(t, exitOK, code)
+	assert.True(t, strings.HasPrefix(out, "case,activity,time,resource,lifecycle\n"))
+}
+
+func TestColumns(t *testing.T) {
+	code, out, errs := runCLI("columns", "testdata/small.csv")
+	require.Equal(t, exitOK, code, errs)
+	assert.Contains(t, out, `separator ";"`)
+	assert.Contains(t, out, "Started")
+	assert.Contains(t, out, "start")
+}
