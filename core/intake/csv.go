@@ -368,6 +368,9 @@ func list(names []string) string {
 		if i > 0 {
 			b.WriteString(", ")
 		}
+		if r := []rune(n); len(r) > 40 {
+			n = string(r[:37]) + "..."
+		}
 		fmt.Fprintf(&b, "%q", n)
 	}
 	return b.String()

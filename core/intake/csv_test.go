@@ -158,6 +158,12 @@ func TestEmptyAndBrokenFiles(t *testing.T) {
 	assert.Equal(t, 3, se.Column)
 }
 
+func TestBinaryIsRefused(t *testing.T) {
+	_, _, err := readString(t, "PK\x03\x04\x14\x00\x06\x00rest of a zip", Options{})
+	require.ErrorIs(t, err, ErrUnsupported)
+	assert.Contains(t, err.Error(), "byte 6") // the NUL after PK\x03\x04\x14, counted from 1
+}
+
 func TestSniff(t *testing.T) {
 	for _, tc := range []struct {
 		name   string

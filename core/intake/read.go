@@ -65,6 +65,9 @@ func Open(r io.Reader) (io.Reader, Format, []string, error) {
 	if len(head) == 0 {
 		return nil, "", nil, ErrEmpty
 	}
+	if at := binaryAt(head); at >= 0 {
+		return nil, "", nil, fmt.Errorf("%w: this is not a text file (CSV or XES): byte %d is a control character; is it a spreadsheet or an archive?", ErrUnsupported, at+1)
+	}
 	var warnings []string
 	var out io.Reader = tr
 	enc := sniffEncoding(head)
@@ -120,4 +123,29 @@ func Read(ctx context.Context, r io.Reader, opt Options) (*eventlog.Log, *Report
 		rep.Bytes = cr.n
 	}
 	return l, rep, err
+}
+
+// binaryAt returns the offset of the first byte that shows head is not text: a NUL, or any
+// control character other than tab, CR, LF and form feed once they make up more than 1% of the
+// head. It returns -1 for text. UTF-16 (NUL-rich) is recognised by its byte-order mark first.
+func binaryAt(head []byte) int {
+	if sniffEncoding(head) == encUTF16LE || sniffEncoding(head) == encUTF16BE {
+		return -1
+	}
+	first, n := -1, 0
+	for i, c := range head {
+		if c == 0 {
+			return i
+		}
+		if c < 0x20 && c != '\t' && c != '\r' && c != '\n' && c != '\f' {
+			if first < 0 {
+				first = i
+			}
+			n++
+		}
+	}
+	if n*100 > len(head) {
+		return first
+	}
+	return -1
 }
