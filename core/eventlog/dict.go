@@ -39,7 +39,26 @@ func (d *Dict) Intern(s string) int32 {
 // InternBytes is Intern for a byte slice; b is copied only when it is new, so b may be a
 // reader's reusable buffer.
 func (d *Dict) InternBytes(b []byte) int32 {
-	h := maphash.Bytes(d.seed, b)
+	return d.intern(b, maphash.Bytes(d.seed, b))
+}
+
+// InternBatch interns keys[i] into out[i], in order, exactly as InternBytes one by one would.
+//
+// It exists for speed on large tables: it first hashes every key, then probes, so that the
+// probes of different keys (each a likely cache miss in a table of 100k cases) are independent
+// instructions close together, which the processor overlaps; interleaved with the rest of a
+// row's work they wait one after the other.
+func (d *Dict) InternBatch(keys [][]byte, hashes []uint64, out []int32) {
+	for i, k := range keys {
+		hashes[i] = maphash.Bytes(d.seed, k)
+	}
+	for i, k := range keys {
+		out[i] = d.intern(k, hashes[i])
+	}
+}
+
+// intern finds or adds b, whose hash is h, by linear probing.
+func (d *Dict) intern(b []byte, h uint64) int32 {
 	tag := h >> 32
 	mask := uint64(len(d.slots) - 1)
 	for i := h & mask; ; i = (i + 1) & mask {
@@ -54,45 +73,8 @@ func (d *Dict) InternBytes(b []byte) int32 {
 			return id
 		}
 		if s>>32 == tag {
-			id := int32(uint32(s)) - 1
-			if d.names[id] == string(b) {
+			if id := int32(uint32(s)) - 1; d.names[id] == string(b) {
 				return id
-			}
-		}
-	}
-}
-
-// InternBatch interns keys[i] into out[i], in order, exactly as InternBytes one by one would.
-//
-// It exists for speed on large tables: it first hashes every key, then probes, so that the
-// probes of different keys (each a likely cache miss in a table of 100k cases) are independent
-// instructions close together, which the processor overlaps; interleaved with the rest of a
-// row's work they wait one after the other.
-func (d *Dict) InternBatch(keys [][]byte, hashes []uint64, out []int32) {
-	for i, k := range keys {
-		hashes[i] = maphash.Bytes(d.seed, k)
-	}
-	for i, k := range keys {
-		h := hashes[i]
-		tag := h >> 32
-		mask := uint64(len(d.slots) - 1)
-		for j := h & mask; ; j = (j + 1) & mask {
-			s := d.slots[j]
-			if s == 0 {
-				id := int32(len(d.names))
-				d.names = append(d.names, d.store(k))
-				d.slots[j] = tag<<32 | uint64(id+1)
-				if 2*len(d.names) > len(d.slots) {
-					d.grow()
-				}
-				out[i] = id
-				break
-			}
-			if s>>32 == tag {
-				if id := int32(uint32(s)) - 1; d.names[id] == string(k) {
-					out[i] = id
-					break
-				}
 			}
 		}
 	}

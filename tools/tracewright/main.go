@@ -229,9 +229,7 @@ func inspect(ctx context.Context, args []string, stdout io.Writer) error {
 		if rep.CSV != nil {
 			rep.CSV.Preview = nil
 		}
-		enc := json.NewEncoder(stdout)
-		enc.SetIndent("", "  ")
-		return enc.Encode(inspectOutput{o, rep})
+		return printJSON(stdout, inspectOutput{o, rep})
 	}
 	printOverview(stdout, path, o, rep)
 	return nil
@@ -271,9 +269,7 @@ func columns(args []string, stdout io.Writer) error {
 		return fmt.Errorf("%s: %w", path, err)
 	}
 	if *asJSON {
-		enc := json.NewEncoder(stdout)
-		enc.SetIndent("", "  ")
-		return enc.Encode(sn)
+		return printJSON(stdout, sn)
 	}
 	sep := sn.Comma
 	if sep == "\t" {
@@ -363,4 +359,10 @@ func checkOutput(in, out string, force bool) error {
 		return &usageError{fmt.Sprintf("--out %s exists; add --force to replace it", out)}
 	}
 	return nil
+}
+
+func printJSON(w io.Writer, v any) error {
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	return enc.Encode(v)
 }
