@@ -1,10 +1,17 @@
 module tracewright
 
-go 1.26
-
-require github.com/stretchr/testify v1.12.1
+go 1.26.0
 
 require (
+	github.com/chromedp/cdproto v0.160.3
+	github.com/chromedp/chromedp v0.23.1
+	github.com/stretchr/testify v1.12.1
+	github.com/tdewolff/minify/v2 v2.25.0
+	gonum.org/v1/gonum v0.17.0
+)
+
+require (
+	github.com/go-json-experiment/json v0.0.0-20260213210345-44df1a37e875 // indirect
+	github.com/tdewolff/parse/v2 v2.25.0 // indirect
 	go.yaml.in/yaml/v3 v3.0.5 // indirect
-	gonum.org/v1/gonum v0.17.0 // indirect
 )

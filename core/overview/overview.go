@@ -74,8 +74,8 @@ type Attribute struct {
 
 // Options bound the lists an Overview carries.
 type Options struct {
-	TopVariants int // default 10
-	Bins        int // histogram bins, default 20
+	TopVariants int `json:"top_variants"` // default 10
+	Bins        int `json:"bins"`         // histogram bins, default 20
 }
 
 // Of computes the overview of l.

@@ -28,14 +28,12 @@ import (
 	"path/filepath"
 	"strings"
 
+	"tracewright/core/engine"
 	"tracewright/core/eventlog"
 	"tracewright/core/export"
 	"tracewright/core/intake"
 	"tracewright/core/overview"
 )
-
-// Version is the engine's version, shown by `tracewright version` and on the page.
-const Version = "0.1.0"
 
 // Exit codes.
 const (
@@ -90,7 +88,7 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	case "convert":
 		err = convert(ctx, args[1:], stdout)
 	case "version", "--version":
-		fmt.Fprintln(stdout, "tracewright", Version)
+		fmt.Fprintln(stdout, "tracewright", engine.Version)
 	case "help", "-h", "--help":
 		fmt.Fprint(stdout, usage)
 	default:

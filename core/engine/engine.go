@@ -1,0 +1,348 @@
+// Package engine is the request handling of the page's engine, in pure Go: it maps a request
+// (kind and JSON payload, and for some kinds a file's bytes as a stream) to a response, and keeps
+// the loaded log between requests. The wasm/ package only moves messages and bytes between the
+// page's Web Worker and this package, so everything here is tested natively.
+//
+// The message API is versioned (APIVersion) and documented in DEVELOPERS.md. Requests carry an
+// id; every response repeats it with a kind of "result", "progress" or "error". An error travels
+// as data: a message, and where the file is at fault the line, column name or number, and the
+// offending text.
+package engine
+
+import (
+	"context"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"strings"
+	"sync"
+
+	"tracewright/core/eventlog"
+	"tracewright/core/intake"
+	"tracewright/core/overview"
+	"tracewright/core/timestamp"
+)
+
+// Version is the version of Tracewright, shown on the page and by the command-line tool.
+const Version = "0.2.0"
+
+// APIVersion is the version of the message API between page and engine. A page refuses an
+// engine of another API version.
+const APIVersion = 1
+
+// Request is one message from the page.
+type Request struct {
+	V       int             `json:"v"`
+	ID      int             `json:"id"`
+	Kind    string          `json:"kind"`
+	Payload json.RawMessage `json:"payload,omitempty"`
+}
+
+// Response is one message to the page.
+type Response struct {
+	V       int    `json:"v"`
+	ID      int    `json:"id"`
+	Kind    string `json:"kind"` // "result", "progress" or "error"
+	Payload any    `json:"payload"`
+}
+
+// ErrorPayload is an error as data. Line is 1-based (0 when the error has no position); Column
+// names the CSV column or XES attribute; Offset is the 1-based byte within the line for a broken
+// file structure.
+type ErrorPayload struct {
+	Message string `json:"message"`
+	Cause   string `json:"cause,omitempty"`
+	Line    int    `json:"line,omitempty"`
+	Column  string `json:"column,omitempty"`
+	Offset  int    `json:"offset,omitempty"`
+	Value   string `json:"value,omitempty"`
+}
+
+// File is what the page hands over with a request that reads a file: its name, its size in
+// bytes (for progress) and its content as a stream.
+type File struct {
+	Name string
+	Size int64
+	R    io.Reader
+}
+
+// Engine holds the loaded log. Requests are handled one at a time, except cancel, which may
+// arrive while a load runs.
+type Engine struct {
+	mu      sync.Mutex
+	log     *eventlog.Log
+	report  *intake.Report
+	name    string
+	cancels map[int]context.CancelFunc
+}
+
+// New returns an engine with no log.
+func New() *Engine { return &Engine{cancels: map[int]context.CancelFunc{}} }
+
+// Handle answers one request. emit receives progress messages while a load runs; the returned
+// Response is the final one (result or error). It is safe to call Handle for "cancel" from
+// another goroutine while a load is running.
+func (e *Engine) Handle(ctx context.Context, req Request, file *File, emit func(Response)) (resp Response) {
+	// A panic is a bug of ours, never the user's: it becomes an error the page can show, so the
+	// page is never left waiting on an engine that died.
+	defer func() {
+		if r := recover(); r != nil {
+			resp = errorResponse(req.ID, fmt.Errorf("internal error in the engine (please report it): %v", r))
+		}
+	}()
+	if req.V != APIVersion {
+		return errorResponse(req.ID, fmt.Errorf("the page speaks message API %d, this engine %d", req.V, APIVersion))
+	}
+	var payload any
+	var err error
+	switch req.Kind {
+	case "hello":
+		payload = map[string]any{"version": Version, "api": APIVersion}
+	case "sniff":
+		payload, err = e.sniff(req.Payload, file)
+	case "load":
+		payload, err = e.load(ctx, req, file, emit)
+	case "overview":
+		payload, err = e.overview(req.Payload)
+	case "parse_time":
+		payload, err = parseTimes(req.Payload)
+	case "cancel":
+		payload, err = e.cancel(req.Payload)
+	default:
+		err = fmt.Errorf("unknown request kind %q", req.Kind)
+	}
+	if err != nil {
+		return errorResponse(req.ID, err)
+	}
+	return Response{V: APIVersion, ID: req.ID, Kind: "result", Payload: payload}
+}
+
+func errorResponse(id int, err error) Response {
+	p := ErrorPayload{Message: err.Error()}
+	var re *intake.RowError
+	var se *intake.SyntaxError
+	switch {
+	case errors.As(err, &re):
+		p.Line, p.Column, p.Value, p.Cause = re.Line, re.Column, re.Value, rootCause(re.Err)
+	case errors.As(err, &se):
+		p.Line, p.Offset, p.Cause = se.Line, se.Column, rootCause(se.Err)
+	case errors.Is(err, context.Canceled):
+		p.Message, p.Cause = "reading was cancelled", "cancelled"
+	}
+	return Response{V: APIVersion, ID: id, Kind: "error", Payload: p}
+}
+
+// rootCause is the innermost error's text: the named cause (intake.ErrBadTime and the like).
+func rootCause(err error) string {
+	for {
+		next := errors.Unwrap(err)
+		if next == nil {
+			return err.Error()
+		}
+		err = next
+	}
+}
+
+// SniffResult says what a file is and, for CSV, what its first part suggests.
+type SniffResult struct {
+	Name   string        `json:"name"`
+	Format intake.Format `json:"format"`
+	CSV    *intake.Sniff `json:"csv,omitempty"`
+	Notes  []string      `json:"notes,omitempty"`
+}
+
+// SniffOptions let the user fix the separator or the header and look again.
+type SniffOptions struct {
+	Separator string `json:"separator"`
+	Header    string `json:"header"` // "yes", "no" or "" (decide)
+}
+
+func (e *Engine) sniff(raw json.RawMessage, f *File) (*SniffResult, error) {
+	if f == nil {
+		return nil, errors.New("sniff needs a file")
+	}
+	var so SniffOptions
+	if len(raw) > 0 {
+		if err := json.Unmarshal(raw, &so); err != nil {
+			return nil, fmt.Errorf("sniff options: %w", err)
+		}
+	}
+	comma, err := separator(so.Separator)
+	if err != nil {
+		return nil, err
+	}
+	text, format, notes, err := intake.Open(f.R)
+	if err != nil {
+		return nil, err
+	}
+	res := &SniffResult{Name: f.Name, Format: format, Notes: notes}
+	if format == intake.FormatCSV {
+		head, err := io.ReadAll(io.LimitReader(text, intake.SampleBytes))
+		if err != nil {
+			return nil, err
+		}
+		if res.CSV, err = intake.SniffCSV(head, comma, headerMode(so.Header)); err != nil {
+			return nil, err
+		}
+	}
+	return res, nil
+}
+
+// LoadOptions are the user's choices for reading a file (all optional).
+type LoadOptions struct {
+	Mapping    intake.Mapping `json:"mapping"`
+	TimeFormat string         `json:"time_format"`
+	Separator  string         `json:"separator"`
+	Header     string         `json:"header"` // "yes", "no" or "" (decide)
+	SkipBad    bool           `json:"skip_bad_rows"`
+	Classifier string         `json:"classifier"`
+}
+
+// LoadResult is the overview of the loaded log and how it was read.
+type LoadResult struct {
+	Name     string             `json:"name"`
+	Overview *overview.Overview `json:"overview"`
+	Read     *intake.Report     `json:"read"`
+}
+
+func (e *Engine) load(ctx context.Context, req Request, f *File, emit func(Response)) (*LoadResult, error) {
+	if f == nil {
+		return nil, errors.New("load needs a file")
+	}
+	var lo LoadOptions
+	if len(req.Payload) > 0 {
+		if err := json.Unmarshal(req.Payload, &lo); err != nil {
+			return nil, fmt.Errorf("load options: %w", err)
+		}
+	}
+	opt := intake.Options{Size: f.Size, MaxReported: 20}
+	opt.CSV.Mapping, opt.CSV.TimeFormat = lo.Mapping, lo.TimeFormat
+	var err error
+	if opt.CSV.Comma, err = separator(lo.Separator); err != nil {
+		return nil, err
+	}
+	opt.CSV.Header = headerMode(lo.Header)
+	if lo.SkipBad {
+		opt.OnError = intake.Skip
+	}
+	opt.XES.Classifier = lo.Classifier
+	if emit != nil {
+		opt.Progress = func(p intake.Progress) {
+			emit(Response{V: APIVersion, ID: req.ID, Kind: "progress", Payload: p})
+		}
+	}
+	ctx, cancel := context.WithCancel(ctx)
+	defer cancel()
+	e.mu.Lock()
+	e.cancels[req.ID] = cancel
+	e.mu.Unlock()
+	defer func() {
+		e.mu.Lock()
+		delete(e.cancels, req.ID)
+		e.mu.Unlock()
+	}()
+	l, rep, err := intake.Read(ctx, f.R, opt)
+	if err != nil {
+		return nil, err
+	}
+	e.mu.Lock()
+	e.log, e.report, e.name = l, rep, f.Name
+	e.mu.Unlock()
+	if rep.CSV != nil {
+		rep.CSV.Preview = nil // the page has it from sniff; keep the message small
+	}
+	return &LoadResult{Name: f.Name, Overview: overview.Of(l, overview.Options{}), Read: rep}, nil
+}
+
+func (e *Engine) overview(raw json.RawMessage) (*overview.Overview, error) {
+	var o overview.Options
+	if len(raw) > 0 {
+		if err := json.Unmarshal(raw, &o); err != nil {
+			return nil, fmt.Errorf("overview options: %w", err)
+		}
+	}
+	e.mu.Lock()
+	l := e.log
+	e.mu.Unlock()
+	if l == nil {
+		return nil, errors.New("no log is loaded")
+	}
+	return overview.Of(l, o), nil
+}
+
+func (e *Engine) cancel(raw json.RawMessage) (map[string]bool, error) {
+	var p struct {
+		ID int `json:"id"`
+	}
+	if err := json.Unmarshal(raw, &p); err != nil {
+		return nil, fmt.Errorf("cancel: %w", err)
+	}
+	e.mu.Lock()
+	c, ok := e.cancels[p.ID]
+	e.mu.Unlock()
+	if ok {
+		c()
+	}
+	return map[string]bool{"cancelled": ok}, nil
+}
+
+// TimeCheck is one value read under a layout: the time in RFC 3339, or why it did not read.
+type TimeCheck struct {
+	Value  string `json:"value"`
+	Parsed string `json:"parsed,omitempty"`
+	Error  string `json:"error,omitempty"`
+}
+
+// parseTimes reads sample values under a layout the user typed, so the page can show at once
+// how the column will read.
+func parseTimes(raw json.RawMessage) ([]TimeCheck, error) {
+	var p struct {
+		Layout string   `json:"layout"`
+		Values []string `json:"values"`
+	}
+	if err := json.Unmarshal(raw, &p); err != nil {
+		return nil, fmt.Errorf("parse_time: %w", err)
+	}
+	f, err := timestamp.ParseFormat(strings.TrimSpace(p.Layout))
+	if err != nil {
+		return nil, err
+	}
+	out := make([]TimeCheck, 0, len(p.Values))
+	for _, v := range p.Values {
+		if len(out) == 50 {
+			break
+		}
+		c := TimeCheck{Value: v}
+		if t, ok := f.ParseString(v); ok {
+			c.Parsed = timestamp.FormatRFC3339(t)
+		} else {
+			c.Error = "does not match " + f.String()
+		}
+		out = append(out, c)
+	}
+	return out, nil
+}
+
+func separator(s string) (byte, error) {
+	switch s {
+	case "":
+		return 0, nil
+	case "tab", "\t":
+		return '\t', nil
+	}
+	if len(s) != 1 {
+		return 0, fmt.Errorf("the separator must be one character, not %q", s)
+	}
+	return s[0], nil
+}
+
+func headerMode(s string) intake.HeaderMode {
+	switch s {
+	case "yes":
+		return intake.HeaderPresent
+	case "no":
+		return intake.HeaderAbsent
+	}
+	return intake.HeaderAuto
+}

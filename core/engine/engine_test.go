@@ -1,0 +1,163 @@
+package engine
+
+import (
+	"context"
+	"encoding/json"
+	"io"
+	"os"
+	"strings"
+	"testing"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+
+	"tracewright/core/intake"
+)
+
+func req(kind string, id int, payload string) Request {
+	r := Request{V: APIVersion, ID: id, Kind: kind}
+	if payload != "" {
+		r.Payload = json.RawMessage(payload)
+	}
+	return r
+}
+
+func fileOf(name, body string) *File {
+	return &File{Name: name, Size: int64(len(body)), R: strings.NewReader(body)}
+}
+
+// roundTrip turns a payload into plain JSON values, as the page receives it.
+func roundTrip(t *testing.T, v any) map[string]any {
+	t.Helper()
+	b, err := json.Marshal(v)
+	require.NoError(t, err)
+	var m map[string]any
+	require.NoError(t, json.Unmarshal(b, &m))
+	return m
+}
+
+func TestHello(t *testing.T) {
+	r := New().Handle(context.Background(), req("hello", 1, ""), nil, nil)
+	assert.Equal(t, "result", r.Kind)
+	assert.Equal(t, 1, r.ID)
+	assert.Equal(t, Version, roundTrip(t, r.Payload)["version"])
+}
+
+func TestVersionMismatch(t *testing.T) {
+	r := New().Handle(context.Background(), Request{V: 99, ID: 2, Kind: "hello"}, nil, nil)
+	assert.Equal(t, "error", r.Kind)
+	assert.Contains(t, r.Payload.(ErrorPayload).Message, "message API 99")
+}
+
+func TestSniffAndLoadDemo(t *testing.T) {
+	data, err := os.ReadFile("../../testdata/workshop.csv")
+	require.NoError(t, err)
+	e := New()
+	r := e.Handle(context.Background(), req("sniff", 1, ""), fileOf("workshop.csv", string(data)), nil)
+	require.Equal(t, "result", r.Kind, "%v", r.Payload)
+	sn := r.Payload.(*SniffResult)
+	assert.Equal(t, intake.FormatCSV, sn.Format)
+	assert.Equal(t, "case_id", sn.CSV.Mapping.Case)
+	assert.Equal(t, "started", sn.CSV.Mapping.Start)
+
+	var progress []Response
+	r = e.Handle(context.Background(), req("load", 2, `{"mapping":{"case":"case_id","activity":"activity","time":"completed","start":"started","resource":"resource"}}`),
+		fileOf("workshop.csv", string(data)), func(p Response) { progress = append(progress, p) })
+	require.Equal(t, "result", r.Kind, "%v", r.Payload)
+	m := roundTrip(t, r.Payload)
+	ov := m["overview"].(map[string]any)
+	var truth struct{ Cases, Events, Activities, Variants int }
+	tb, _ := os.ReadFile("../../testdata/workshop.truth.json")
+	require.NoError(t, json.Unmarshal(tb, &truth))
+	assert.Equal(t, float64(truth.Cases), ov["cases"])
+	assert.Equal(t, float64(truth.Events), ov["events"])
+	assert.Equal(t, float64(truth.Variants), ov["variants"])
+	require.NotEmpty(t, progress)
+	assert.Equal(t, "progress", progress[len(progress)-1].Kind)
+	assert.Equal(t, 2, progress[0].ID)
+
+	r = e.Handle(context.Background(), req("overview", 3, `{"top_variants":2}`), nil, nil)
+	require.Equal(t, "result", r.Kind)
+	assert.Len(t, roundTrip(t, r.Payload)["top_variants"], 2)
+}
+
+func TestLoadErrorsAreData(t *testing.T) {
+	e := New()
+	r := e.Handle(context.Background(), req("load", 4, ""), fileOf("bad.csv", "case,activity,time\n1,a,2024-01-01\n1,b,someday\n"), nil)
+	require.Equal(t, "error", r.Kind)
+	p := r.Payload.(ErrorPayload)
+	assert.Equal(t, 3, p.Line)
+	assert.Equal(t, "time", p.Column)
+	assert.Equal(t, "someday", p.Value)
+	assert.Contains(t, p.Message, "line 3")
+
+	r = e.Handle(context.Background(), req("load", 5, ""), fileOf("bad.xes", "<log><trace>\n<event></trace></log>"), nil)
+	require.Equal(t, "error", r.Kind)
+	p = r.Payload.(ErrorPayload)
+	assert.Equal(t, 2, p.Line)
+	assert.Positive(t, p.Offset)
+
+	r = e.Handle(context.Background(), req("sniff", 11, ""), fileOf("broken.csv", "case,activity,time\n1,a,2024-01-01\n1,\"b,2024-01-02\n"), nil)
+	require.Equal(t, "error", r.Kind)
+	p = r.Payload.(ErrorPayload)
+	assert.Equal(t, 3, p.Line)
+	assert.Equal(t, intake.ErrUnclosed.Error(), p.Cause)
+
+	r = e.Handle(context.Background(), req("overview", 6, ""), nil, nil)
+	assert.Equal(t, "error", r.Kind, "nothing loaded yet")
+}
+
+// blockingReader yields one row, then waits until the test lets it go on.
+type blockingReader struct {
+	first  io.Reader
+	gate   chan struct{}
+	passed bool
+}
+
+func (b *blockingReader) Read(p []byte) (int, error) {
+	n, err := b.first.Read(p)
+	if err == io.EOF && !b.passed {
+		<-b.gate
+		b.passed = true
+		return copy(p, strings.Repeat("1,a,2024-01-01T00:00:00Z\n", 50000)), nil
+	}
+	if err == io.EOF {
+		return copy(p, "1,a,2024-01-01T00:00:00Z\n"), nil // never ends on its own
+	}
+	return n, err
+}
+
+func TestCancel(t *testing.T) {
+	e := New()
+	gate := make(chan struct{})
+	done := make(chan Response)
+	body := &blockingReader{first: strings.NewReader("case,activity,time\n1,a,2024-01-01T00:00:00Z\n"), gate: gate}
+	go func() {
+		done <- e.Handle(context.Background(), req("load", 7, `{"mapping":{"case":"case","activity":"activity","time":"time"},"time_format":"YYYY-MM-DDThh:mm[:ss[.f]][Z]"}`), &File{Name: "x.csv", R: body}, nil)
+	}()
+	// wait until the load is registered, then cancel it
+	for {
+		e.mu.Lock()
+		_, running := e.cancels[7]
+		e.mu.Unlock()
+		if running {
+			break
+		}
+	}
+	c := e.Handle(context.Background(), req("cancel", 8, `{"id":7}`), nil, nil)
+	assert.Equal(t, true, roundTrip(t, map[string]any{"p": c.Payload})["p"].(map[string]any)["cancelled"])
+	close(gate)
+	r := <-done
+	require.Equal(t, "error", r.Kind)
+	assert.Equal(t, "cancelled", r.Payload.(ErrorPayload).Cause)
+}
+
+func TestParseTime(t *testing.T) {
+	r := New().Handle(context.Background(), req("parse_time", 9, `{"layout":"D.M.YYYY h:mm","values":["5.3.2024 7:08","31.2.2024 1:00"]}`), nil, nil)
+	require.Equal(t, "result", r.Kind)
+	got := r.Payload.([]TimeCheck)
+	assert.Equal(t, "2024-03-05T07:08:00Z", got[0].Parsed)
+	assert.NotEmpty(t, got[1].Error)
+	r = New().Handle(context.Background(), req("parse_time", 10, `{"layout":"hh:mm","values":["x"]}`), nil, nil)
+	assert.Equal(t, "error", r.Kind)
+}

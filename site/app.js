@@ -1,0 +1,314 @@
+// Tracewright page: talks to the engine in a Web Worker through a small versioned message API
+// (DEVELOPERS.md, "Message API"). It never makes a network request; files are read by the
+// engine from the File handle the browser gives, and nothing is written to storage.
+(() => {
+  'use strict';
+  const API = 1;
+  const $ = (id) => document.getElementById(id);
+  const el = (tag, attrs, ...kids) => {
+    const e = document.createElement(tag);
+    for (const [k, v] of Object.entries(attrs || {})) {
+      if (k === 'class') e.className = v; else if (k === 'text') e.textContent = v; else e.setAttribute(k, v);
+    }
+    for (const kid of kids) if (kid != null) e.append(kid);
+    return e;
+  };
+  const fmtInt = (n) => Number(n).toLocaleString('en-US');
+  const sections = ['start', 'mapping', 'progress', 'problem', 'overview'];
+  function show(name) {
+    for (const s of sections) $(s).hidden = s !== name;
+    document.body.dataset.state = name;
+    const h = $(name).querySelector('h2');
+    if (h) { h.tabIndex = -1; h.focus({ preventScroll: true }); }
+  }
+
+  // ---- engine ----
+  let worker = null;
+  let nextId = 1;
+  const pending = new Map();
+  let readyResolve;
+  const ready = new Promise((r) => { readyResolve = r; });
+
+  function startEngine() {
+    const src = $('tw-worker').textContent;
+    const url = URL.createObjectURL(new Blob([src], { type: 'text/javascript' }));
+    worker = new Worker(url);
+    URL.revokeObjectURL(url);
+    worker.onmessage = (e) => {
+      const m = e.data;
+      const payload = m.json ? JSON.parse(m.json) : null;
+      if (m.kind === 'ready') {
+        $('engine-state').textContent = 'ready';
+        document.body.dataset.engine = 'ready';
+        readyResolve(payload);
+        return;
+      }
+      if (m.id === 0 && m.kind === 'error') { fail(payload); return; }
+      const p = pending.get(m.id);
+      if (!p) return;
+      if (m.kind === 'progress') { if (p.onProgress) p.onProgress(payload); return; }
+      pending.delete(m.id);
+      if (m.kind === 'error') p.reject(payload); else p.resolve(payload);
+    };
+    worker.onerror = (e) => fail({ message: 'The engine stopped: ' + (e.message || 'unknown error') });
+    worker.postMessage({ kind: 'boot', engine: $('tw-engine').textContent });
+  }
+
+  async function call(kind, payload, file, onProgress) {
+    await ready;
+    const id = nextId++;
+    const msg = { v: API, id, kind, payload: payload == null ? '' : JSON.stringify(payload) };
+    if (file) msg.file = file;
+    return { id, done: new Promise((resolve, reject) => { pending.set(id, { resolve, reject, onProgress }); worker.postMessage(msg); }) };
+  }
+
+  // ---- start screen ----
+  let current = null; // { file, sniff }
+  const drop = $('dropzone');
+  drop.addEventListener('click', () => $('file-input').click());
+  drop.addEventListener('keydown', (e) => { if (e.key === 'Enter' || e.key === ' ') { e.preventDefault(); $('file-input').click(); } });
+  drop.addEventListener('dragover', (e) => { e.preventDefault(); drop.classList.add('over'); });
+  drop.addEventListener('dragleave', () => drop.classList.remove('over'));
+  drop.addEventListener('drop', (e) => {
+    e.preventDefault(); drop.classList.remove('over');
+    if (e.dataTransfer.files.length) openFile(e.dataTransfer.files[0]);
+  });
+  // A file dropped anywhere else must not make the browser navigate away to it.
+  window.addEventListener('dragover', (e) => e.preventDefault());
+  window.addEventListener('drop', (e) => e.preventDefault());
+  $('file-input').addEventListener('change', (e) => { if (e.target.files.length) openFile(e.target.files[0]); e.target.value = ''; });
+  $('demo-button').addEventListener('click', () => {
+    const node = $('tw-demo');
+    const text = node.textContent.trim();
+    let bytes;
+    if (typeof Uint8Array.fromBase64 === 'function') bytes = Uint8Array.fromBase64(text);
+    else { const bin = atob(text); bytes = new Uint8Array(bin.length); for (let i = 0; i < bin.length; i++) bytes[i] = bin.charCodeAt(i); }
+    openFile(new File([bytes], node.dataset.name));
+  });
+  for (const id of ['back-button', 'problem-back', 'again-button']) $(id).addEventListener('click', () => show('start'));
+
+  async function openFile(file) {
+    try {
+      const { done } = await call('sniff', null, file);
+      const sniff = await done;
+      current = { file, sniff };
+      if (sniff.format === 'xes') { load({}); return; }
+      showMapping(sniff);
+    } catch (err) { fail(err); }
+  }
+
+  // ---- column mapping ----
+  const roles = [['case', 'case id'], ['activity', 'activity'], ['time', 'time (end)'], ['start', 'start time'],
+    ['resource', 'resource'], ['lifecycle', 'lifecycle'], ['attribute', 'keep as attribute'], ['ignore', 'leave out']];
+  function confidenceWord(c) { return c >= 0.9 ? 'sure' : c >= 0.6 ? 'likely' : 'a guess'; }
+
+  function showMapping(sniff) {
+    const csv = sniff.csv;
+    $('sep').value = csv.separator === '\t' ? 'tab' : csv.separator;
+    $('has-header').checked = csv.header;
+    $('time-format').value = csv.time_format || '';
+    const amb = $('time-ambiguous');
+    amb.hidden = !csv.time_ambiguous;
+    if (csv.time_ambiguous) {
+      amb.textContent = 'The sample cannot tell whether dates are written day first or month first. Day first (' + csv.time_format +
+        ') is assumed; for month first use ' + csv.time_alternative + '.';
+    }
+    const table = $('preview');
+    table.replaceChildren(table.querySelector('caption'));
+    const head = el('tr');
+    csv.guesses.forEach((g, i) => {
+      const sel = el('select', { 'aria-label': 'Role of column ' + g.column, 'data-col': String(i) });
+      for (const [v, label] of roles) sel.append(el('option', { value: v, text: label }));
+      sel.value = g.role;
+      sel.addEventListener('change', checkTimes);
+      head.append(el('th', { scope: 'col', class: 'role' }, el('span', { text: g.column }), sel,
+        el('span', { class: 'sure', text: confidenceWord(g.confidence) + ' (' + Math.round(g.confidence * 100) + '%)', title: g.why })));
+    });
+    table.append(el('thead', {}, head));
+    const body = el('tbody');
+    for (const row of csv.preview || []) body.append(el('tr', {}, ...row.map((c) => el('td', { text: c }))));
+    table.append(body);
+    show('mapping');
+    checkTimes();
+  }
+
+  function chosenMapping() {
+    const m = { ignore: [] };
+    const cols = current.sniff.csv.columns;
+    for (const sel of $('preview').querySelectorAll('select')) {
+      const name = cols[Number(sel.dataset.col)];
+      if (sel.value === 'ignore') m.ignore.push(name);
+      else if (sel.value !== 'attribute') m[sel.value] = name;
+    }
+    return m;
+  }
+
+  let checkSeq = 0;
+  async function checkTimes() {
+    const seq = ++checkSeq;
+    const out = $('time-check');
+    const csv = current.sniff.csv;
+    const m = chosenMapping();
+    const j = csv.columns.indexOf(m.time);
+    const layout = $('time-format').value.trim();
+    if (j < 0) { out.textContent = 'Choose the column that holds the time.'; out.className = 'small bad'; return; }
+    const values = (csv.preview || []).map((r) => r[j]).filter((v) => v && v.trim()).slice(0, 5);
+    if (!layout || !values.length) { out.textContent = ''; return; }
+    try {
+      const { done } = await call('parse_time', { layout, values });
+      const res = await done;
+      if (seq !== checkSeq) return;
+      const bad = res.filter((r) => r.error);
+      out.className = bad.length ? 'small bad' : 'small';
+      out.textContent = bad.length ? bad.length + ' of ' + res.length + ' sample values do not match, for example "' + bad[0].value + '".'
+        : '"' + res[0].value + '" reads as ' + res[0].parsed.replace('T', ' ').replace('Z', ' UTC') + '.';
+    } catch (err) {
+      if (seq !== checkSeq) return;
+      out.className = 'small bad'; out.textContent = err.message;
+    }
+  }
+  $('time-format').addEventListener('input', checkTimes);
+  // A new separator or header changes every column: look at the start of the file again.
+  async function resniff() {
+    try {
+      const { done } = await call('sniff', { separator: $('sep').value, header: $('has-header').checked ? 'yes' : 'no' }, current.file);
+      current.sniff = await done;
+      showMapping(current.sniff);
+    } catch (err) { fail(err); }
+  }
+  $('sep').addEventListener('change', resniff);
+  $('has-header').addEventListener('change', resniff);
+  $('read-button').addEventListener('click', () => load(null));
+
+  // ---- reading ----
+  let running = null;
+  async function load(options) {
+    const opts = options || {
+      mapping: chosenMapping(),
+      time_format: $('time-format').value.trim(),
+      separator: $('sep').value,
+      header: $('has-header').checked ? 'yes' : 'no',
+      skip_bad_rows: document.querySelector('input[name=onerror]:checked').value === 'skip',
+    };
+    const file = current.file;
+    $('progress-name').textContent = file.name;
+    $('progress-bar').value = 0;
+    $('progress-text').textContent = 'Starting…';
+    show('progress');
+    const started = performance.now();
+    try {
+      const job = await call('load', opts, file, (p) => {
+        const total = p.total || file.size;
+        if (total) $('progress-bar').value = Math.min(1, p.bytes / total);
+        $('progress-text').textContent = fmtInt(p.events) + ' events read, ' + (p.bytes / 1048576).toFixed(1) + ' of ' + (total / 1048576).toFixed(1) + ' MB';
+      });
+      running = job.id;
+      const res = await job.done;
+      running = null;
+      renderOverview(res, performance.now() - started);
+    } catch (err) {
+      running = null;
+      if (err && err.cause === 'cancelled') { show(current.sniff.format === 'csv' ? 'mapping' : 'start'); return; }
+      fail(err);
+    }
+  }
+  $('cancel-button').addEventListener('click', () => { if (running) call('cancel', { id: running }); });
+
+  function fail(err) {
+    const e = err || {};
+    $('problem-message').textContent = e.message || String(err);
+    const where = $('problem-where');
+    where.replaceChildren();
+    const add = (k, v) => { if (v !== undefined && v !== null && v !== '' && v !== 0) where.append(el('dt', { text: k }), el('dd', { text: String(v) })); };
+    add('Line', e.line); add('Column', e.column); add('Position in the line', e.offset); add('Text found', e.value);
+    show('problem');
+  }
+
+  // ---- overview ----
+  function duration(s) {
+    if (s >= 86400) return (s / 86400).toFixed(s >= 864000 ? 0 : 1) + ' d';
+    if (s >= 3600) return (s / 3600).toFixed(1) + ' h';
+    if (s >= 60) return Math.round(s / 60) + ' min';
+    return Math.round(s) + ' s';
+  }
+
+  function renderOverview(res, ms) {
+    const o = res.overview;
+    $('overview-name').textContent = res.name;
+    const figs = $('figures');
+    figs.replaceChildren();
+    const figure = (metric, label, value) => figs.append(el('div', { class: 'figure', 'data-metric': metric, 'data-value': String(value) },
+      el('span', { class: 'value', text: fmtInt(value) }), el('span', { class: 'label', text: label })));
+    figure('cases', 'cases', o.cases);
+    figure('events', 'events', o.events);
+    figure('activities', 'activities', o.activities);
+    figure('variants', 'variants', o.variants);
+    figure('resources', 'resources', o.resources);
+    if (o.activity_instances !== o.events) figure('activity_instances', 'activity instances (start and end paired)', o.activity_instances);
+    $('span').textContent = o.first ? 'From ' + o.first.replace('T', ' ').replace('Z', ' UTC') + ' to ' + o.last.replace('T', ' ').replace('Z', ' UTC') +
+      ' (' + duration(o.span_seconds) + '). Read in ' + (ms / 1000).toFixed(1) + ' s.' : 'The log has no timestamps.';
+    const notes = $('read-notes');
+    notes.replaceChildren();
+    for (const w of res.read.warnings || []) notes.append(el('p', { class: 'notice', text: w }));
+    const pr = res.read.problems;
+    if (pr && pr.skipped) {
+      const list = el('ul');
+      for (const f of pr.first || []) list.append(el('li', { text: f.message }));
+      notes.append(el('div', { class: 'notice' }, el('p', { text: fmtInt(pr.skipped) + ' rows could not be read and were set aside. The first ones:' }), list));
+    }
+    const d = o.case_duration_seconds;
+    $('dur-summary').textContent = d.n ? 'Median ' + duration(d.median) + ', mean ' + duration(d.mean) + '; 90% of cases within ' + duration(d.p90) + ', the longest ' + duration(d.max) + '.' : '';
+    drawHistogram(o.case_duration_histogram || []);
+    const paths = $('paths');
+    paths.replaceChildren();
+    for (const v of o.top_variants) {
+      paths.append(el('li', {}, el('span', { class: 'share', text: (v.share * 100).toFixed(1) + '%' }),
+        el('span', { class: 'muted small', text: fmtInt(v.cases) + ' cases ' }), el('br'),
+        ...v.activities.map((a) => el('span', { class: 'chip', text: a }))));
+    }
+    $('paths-summary').textContent = 'The ' + o.top_variants.length + ' most common of ' + fmtInt(o.variants) + ' paths cover ' + (o.top_variants_share * 100).toFixed(0) + '% of cases.';
+    const t = $('activities');
+    t.replaceChildren(el('thead', {}, el('tr', {}, el('th', { scope: 'col', text: 'Activity' }), el('th', { scope: 'col', class: 'num', text: 'Events' }),
+      el('th', { scope: 'col', class: 'num', text: 'Cases' }), el('th', { scope: 'col', class: 'num', text: 'Share of cases' }))));
+    const tb = el('tbody');
+    for (const a of o.activity_counts) {
+      tb.append(el('tr', {}, el('td', { text: a.name }), el('td', { class: 'num', text: fmtInt(a.events) }), el('td', { class: 'num', text: fmtInt(a.cases) }),
+        el('td', { class: 'num', text: (100 * a.cases / o.cases).toFixed(1) + '%' })));
+    }
+    t.append(tb);
+    show('overview');
+    $('overview').dataset.ready = 'true';
+  }
+
+  const SVG = 'http://www.w3.org/2000/svg';
+  function svg(tag, attrs, text) {
+    const e = document.createElementNS(SVG, tag);
+    for (const [k, v] of Object.entries(attrs)) e.setAttribute(k, String(v));
+    if (text != null) e.textContent = text;
+    return e;
+  }
+  function drawHistogram(bins) {
+    const box = $('histogram');
+    box.replaceChildren();
+    if (!bins.length) return;
+    const W = 480, H = 200, L = 44, B = 34, T = 8;
+    const maxC = Math.max(...bins.map((b) => b.count));
+    const s = svg('svg', { viewBox: '0 0 ' + W + ' ' + H, width: '100%', role: 'img', 'aria-label': 'Histogram of case durations, ' + bins.length + ' bars' });
+    const bw = (W - L - 8) / bins.length;
+    bins.forEach((b, i) => {
+      const h = maxC ? (H - B - T) * b.count / maxC : 0;
+      const r = svg('rect', { class: 'hbar', x: L + i * bw + 1, y: H - B - h, width: Math.max(1, bw - 2), height: h });
+      r.append(svg('title', {}, duration(b.lo) + ' to ' + duration(b.hi) + ': ' + fmtInt(b.count) + ' cases'));
+      s.append(r);
+    });
+    s.append(svg('text', { x: L, y: H - B + 14 }, duration(bins[0].lo)));
+    s.append(svg('text', { x: W - 8, y: H - B + 14, 'text-anchor': 'end' }, duration(bins[bins.length - 1].hi)));
+    s.append(svg('text', { x: (L + W) / 2, y: H - 4, 'text-anchor': 'middle' }, 'case duration'));
+    s.append(svg('text', { x: L - 6, y: T + 10, 'text-anchor': 'end' }, fmtInt(maxC)));
+    s.append(svg('text', { x: L - 6, y: H - B, 'text-anchor': 'end' }, '0'));
+    s.append(svg('line', { x1: L, y1: H - B, x2: W - 8, y2: H - B, stroke: 'currentColor', 'stroke-opacity': 0.3 }));
+    box.append(s);
+  }
+
+  startEngine();
+})();

@@ -1,0 +1,331 @@
+//go:build !js
+
+package main
+
+import (
+	"context"
+	"encoding/json"
+	"fmt"
+	"net"
+	"net/http"
+	"net/http/httptest"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strings"
+	"sync"
+	"sync/atomic"
+	"testing"
+	"time"
+
+	"github.com/chromedp/cdproto/network"
+	"github.com/chromedp/cdproto/runtime"
+	"github.com/chromedp/chromedp"
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+const chromiumPath = "/usr/bin/chromium"
+
+// page is built once for all browser tests.
+var page struct {
+	once sync.Once
+	dir  string
+	err  error
+}
+
+func builtPage(t *testing.T) string {
+	t.Helper()
+	page.once.Do(func() {
+		page.dir, page.err = os.MkdirTemp("", "tracewright-page-")
+		if page.err == nil {
+			_, _, page.err = run("../..", filepath.Join(page.dir, "tracewright.html"), "testdata/workshop.csv", 3_000_000)
+		}
+	})
+	require.NoError(t, page.err)
+	return filepath.Join(page.dir, "tracewright.html")
+}
+
+// browser starts Debian's chromium headless with everything that would call home switched off,
+// and a fresh profile. Outside CI the test skips when there is no chromium; in CI it must run.
+func browser(t *testing.T) (context.Context, *requestLog) {
+	t.Helper()
+	if _, err := os.Stat(chromiumPath); err != nil {
+		if os.Getenv("CI") != "" {
+			t.Fatalf("CI needs %s for the browser tests (.ci/run installs it)", chromiumPath)
+		}
+		t.Skipf("no browser at %s: browser tests skipped (apt-get install chromium)", chromiumPath)
+	}
+	profile := t.TempDir()
+	require.NoError(t, os.MkdirAll(filepath.Join(profile, "Default"), 0o755))
+	require.NoError(t, os.WriteFile(filepath.Join(profile, "Default", "Preferences"), []byte(`{"net":{"network_prediction_options":2}}`), 0o644))
+	opts := append(chromedp.DefaultExecAllocatorOptions[:0:0],
+		chromedp.ExecPath(chromiumPath), chromedp.Headless, chromedp.NoSandbox, chromedp.DisableGPU,
+		chromedp.NoFirstRun, chromedp.UserDataDir(profile),
+		chromedp.Flag("disable-quic", true), chromedp.Flag("disable-component-update", true),
+		chromedp.Flag("disable-sync", true), chromedp.Flag("disable-background-networking", true),
+		chromedp.Flag("host-resolver-rules", "MAP * ~NOTFOUND, EXCLUDE 127.0.0.1"),
+		chromedp.WindowSize(1280, 1000),
+	)
+	actx, cancelA := chromedp.NewExecAllocator(context.Background(), opts...)
+	ctx, cancelC := chromedp.NewContext(actx)
+	ctx, cancelT := context.WithTimeout(ctx, 90*time.Second)
+	t.Cleanup(func() { cancelT(); cancelC(); cancelA() })
+	rl := &requestLog{}
+	require.NoError(t, chromedp.Listen(ctx, rl.listen))
+	_, err := chromedp.Call(ctx, network.Enable, network.EnableParams{})
+	require.NoError(t, err)
+	return ctx, rl
+}
+
+// requestLog keeps every request the page made, and how each one ended.
+type requestLog struct {
+	mu       sync.Mutex
+	urls     map[network.RequestID]string
+	order    []network.RequestID
+	blocked  map[network.RequestID]string
+	console  []string
+	failures []string
+}
+
+func (r *requestLog) listen(ev any) {
+	r.mu.Lock()
+	defer r.mu.Unlock()
+	if r.urls == nil {
+		r.urls, r.blocked = map[network.RequestID]string{}, map[network.RequestID]string{}
+	}
+	switch e := ev.(type) {
+	case *network.EventRequestWillBeSent:
+		r.urls[e.RequestID] = e.Request.URL
+		r.order = append(r.order, e.RequestID)
+	case *network.EventLoadingFailed:
+		r.blocked[e.RequestID] = string(e.BlockedReason)
+	case *runtime.EventConsoleAPICalled:
+		var parts []string
+		for _, a := range e.Args {
+			parts = append(parts, string(a.Value))
+		}
+		r.console = append(r.console, strings.Join(parts, " "))
+	case *runtime.EventExceptionThrown:
+		d := e.ExceptionDetails
+		msg := d.Text
+		if d.Exception != nil {
+			msg += " " + d.Exception.Description
+		}
+		r.failures = append(r.failures, msg)
+	}
+}
+
+// outgoing lists requests that were neither the page itself nor blob:/data: URLs, with how they
+// ended ("" if not blocked).
+func (r *requestLog) outgoing(pageURL string) map[string]string {
+	r.mu.Lock()
+	defer r.mu.Unlock()
+	out := map[string]string{}
+	for _, id := range r.order {
+		u := r.urls[id]
+		if u == pageURL || strings.HasPrefix(u, "blob:") || strings.HasPrefix(u, "data:") {
+			continue
+		}
+		out[u] = r.blocked[id]
+	}
+	return out
+}
+
+// watcher is a loopback listener that must never see a connection: the ground truth that nothing
+// left the page.
+type watcher struct {
+	ln    net.Listener
+	count atomic.Int32
+}
+
+func newWatcher(t *testing.T) *watcher {
+	ln, err := net.Listen("tcp", "127.0.0.1:0")
+	require.NoError(t, err)
+	w := &watcher{ln: ln}
+	go func() {
+		for {
+			c, err := ln.Accept()
+			if err != nil {
+				return
+			}
+			w.count.Add(1)
+			c.Close()
+		}
+	}()
+	t.Cleanup(func() { ln.Close() })
+	return w
+}
+
+func cliInspect(t *testing.T, file string) map[string]any {
+	t.Helper()
+	bin := filepath.Join(t.TempDir(), "tracewright")
+	build := exec.Command("go", "build", "-o", bin, "./tools/tracewright")
+	build.Dir = "../.."
+	out, err := build.CombinedOutput()
+	require.NoError(t, err, string(out))
+	out, err = exec.Command(bin, "inspect", file, "--json").Output()
+	require.NoError(t, err)
+	var m map[string]any
+	require.NoError(t, json.Unmarshal(out, &m))
+	return m
+}
+
+func shot(t *testing.T, ctx context.Context, name string) {
+	png, err := chromedp.Run(ctx, chromedp.FullScreenshot(100))
+	require.NoError(t, err)
+	dir := os.Getenv("TRACEWRIGHT_SHOTS")
+	if dir == "" {
+		dir = t.TempDir()
+	}
+	p := filepath.Join(dir, name+".png")
+	require.NoError(t, os.WriteFile(p, png, 0o644))
+	t.Logf("screenshot: %s", p)
+}
+
+func metrics(t *testing.T, ctx context.Context) map[string]string {
+	got, err := chromedp.Run(ctx, chromedp.Evaluate[map[string]string](
+		`Object.fromEntries([...document.querySelectorAll('[data-metric]')].map(e => [e.dataset.metric, e.dataset.value]))`))
+	require.NoError(t, err)
+	return got
+}
+
+// TestDropALog opens the page from file:// and from a loopback server, reads a CSV log and an
+// XES log through the mapping step, and checks the figures against the command-line tool's
+// `inspect --json` for the same files; no request may leave the page.
+func TestDropALog(t *testing.T) {
+	html := builtPage(t)
+	srv := httptest.NewServer(http.FileServer(http.Dir(filepath.Dir(html))))
+	defer srv.Close()
+	csv, _ := filepath.Abs("../../testdata/workshop.csv")
+	xes, _ := filepath.Abs("../../testdata/workshop.xes.gz")
+	want := cliInspect(t, csv)
+	wantX := cliInspect(t, xes)
+	for _, origin := range []struct{ name, url string }{
+		{"file", "file://" + html},
+		{"server", srv.URL + "/tracewright.html"},
+	} {
+		t.Run(origin.name, func(t *testing.T) {
+			ctx, rl := browser(t)
+			require.NoError(t, chromedp.Do(ctx,
+				chromedp.Navigate(origin.url),
+				chromedp.WaitVisible(chromedp.CSS(`body[data-engine="ready"]`)),
+				chromedp.SetUploadFiles(chromedp.CSS(`#file-input`), []string{csv}),
+				chromedp.WaitVisible(chromedp.CSS(`#mapping`)),
+			))
+			shot(t, ctx, "mapping-"+origin.name)
+			require.NoError(t, chromedp.Do(ctx,
+				chromedp.Click(chromedp.CSS(`#read-button`)),
+				chromedp.WaitVisible(chromedp.CSS(`#overview[data-ready="true"]`)),
+			))
+			got := metrics(t, ctx)
+			for _, k := range []string{"cases", "events", "activities", "variants"} {
+				assert.Equal(t, fmt.Sprint(want[k]), got[k], k)
+			}
+			shot(t, ctx, "overview-"+origin.name)
+
+			// An XES file goes straight to the overview.
+			require.NoError(t, chromedp.Do(ctx,
+				chromedp.Click(chromedp.CSS(`#again-button`)),
+				chromedp.WaitVisible(chromedp.CSS(`#start`)),
+				chromedp.SetUploadFiles(chromedp.CSS(`#file-input`), []string{xes}),
+				chromedp.WaitVisible(chromedp.CSS(`#overview-name`)),
+				chromedp.WaitVisible(chromedp.CSS(`#overview[data-ready="true"]`)),
+			))
+			name, err := chromedp.Run(ctx, chromedp.Text(chromedp.CSS(`#overview-name`)))
+			require.NoError(t, err)
+			assert.Equal(t, "workshop.xes.gz", name)
+			got = metrics(t, ctx)
+			for _, k := range []string{"cases", "events", "activities", "variants"} {
+				assert.Equal(t, fmt.Sprint(wantX[k]), got[k], k)
+			}
+			assert.Empty(t, rl.outgoing(origin.url), "no request may leave the page")
+			assert.Empty(t, rl.failures, "no script errors")
+		})
+	}
+}
+
+func TestDemoAndMalformedFile(t *testing.T) {
+	html := builtPage(t)
+	ctx, rl := browser(t)
+	bad := filepath.Join(t.TempDir(), "broken.csv")
+	require.NoError(t, os.WriteFile(bad, []byte("case,activity,time\n1,a,2024-01-01T10:00:00Z\n1,\"b,2024-01-02T10:00:00Z\n"), 0o644))
+	step := func(name string, a ...chromedp.Action[chromedp.Void]) {
+		t.Helper()
+		sctx, cancel := context.WithTimeout(ctx, 20*time.Second)
+		defer cancel()
+		if err := chromedp.Do(sctx, a...); err != nil {
+			shot(t, ctx, "failed-"+name)
+			st, _ := chromedp.Run(ctx, chromedp.Evaluate[string](`document.body.dataset.state + ' | ' + document.getElementById('problem-message').textContent`))
+			t.Logf("state at failure: %s", st)
+			t.Fatalf("%s: %v (console: %v, errors: %v)", name, err, rl.console, rl.failures)
+		}
+	}
+	step("open", chromedp.Navigate("file://"+html), chromedp.WaitVisible(chromedp.CSS(`body[data-engine="ready"]`)))
+	step("demo", chromedp.Click(chromedp.CSS(`#demo-button`)), chromedp.WaitVisible(chromedp.CSS(`#mapping`)))
+	step("read demo", chromedp.Click(chromedp.CSS(`#read-button`)), chromedp.WaitVisible(chromedp.CSS(`#overview[data-ready="true"]`)))
+	step("back to start", chromedp.Click(chromedp.CSS(`#again-button`)), chromedp.WaitVisible(chromedp.CSS(`#start`)))
+	step("upload malformed", chromedp.SetUploadFiles(chromedp.CSS(`#file-input`), []string{bad}))
+	step("see the problem", chromedp.WaitVisible(chromedp.CSS(`#problem`)))
+	msg, err := chromedp.Run(ctx, chromedp.Text(chromedp.CSS(`#problem-message`)))
+	require.NoError(t, err)
+	where, err := chromedp.Run(ctx, chromedp.Text(chromedp.CSS(`#problem-where`)))
+	require.NoError(t, err)
+	assert.Contains(t, msg, "line 3")
+	assert.Contains(t, msg, "not closed")
+	assert.Contains(t, where, "3")
+	shot(t, ctx, "problem")
+	assert.Empty(t, rl.outgoing("file://"+html))
+}
+
+// TestNothingLeavesThePage tries every kind of request a page or its worker can make, aimed at
+// a loopback listener: the Content-Security-Policy must block them all (the browser reports each
+// as blocked) and the listener must see no connection.
+func TestNothingLeavesThePage(t *testing.T) {
+	html := builtPage(t)
+	w := newWatcher(t)
+	target := "http://" + w.ln.Addr().String()
+	ctx, rl := browser(t)
+	require.NoError(t, chromedp.Do(ctx,
+		chromedp.Navigate("file://"+html),
+		chromedp.WaitVisible(chromedp.CSS(`body[data-engine="ready"]`)),
+	))
+	attempts := `(async (u) => {
+		const tries = [];
+		let kinds = 4; // the worker's four below
+		const t = (name, f) => { kinds++; try { const p = f(); if (p && p.catch) tries.push(p.catch(() => {})); } catch (e) {} };
+		t('fetch', () => fetch(u + '/fetch'));
+		t('xhr', () => { const x = new XMLHttpRequest(); x.open('GET', u + '/xhr'); x.send(); });
+		t('img', () => { const i = new Image(); i.src = u + '/img'; });
+		t('websocket', () => new WebSocket(u.replace('http', 'ws') + '/ws'));
+		t('beacon', () => navigator.sendBeacon(u + '/beacon', 'x'));
+		t('eventsource', () => new EventSource(u + '/es'));
+		t('script', () => { const s = document.createElement('script'); s.src = u + '/script.js'; document.head.append(s); });
+		t('prefetch', () => { const l = document.createElement('link'); l.rel = 'prefetch'; l.href = u + '/prefetch'; document.head.append(l); });
+		t('stylesheet', () => { const l = document.createElement('link'); l.rel = 'stylesheet'; l.href = u + '/style.css'; document.head.append(l); });
+		t('iframe', () => { const f = document.createElement('iframe'); f.src = u + '/frame'; document.body.append(f); });
+		t('audio', () => { const a = new Audio(u + '/audio'); a.play().catch(() => {}); });
+		t('worker-url', () => new Worker(u + '/worker.js'));
+		t('form', () => { const f = document.createElement('form'); f.action = u + '/form'; f.method = 'post'; document.body.append(f); f.submit(); });
+		const code = 'const u=' + JSON.stringify(u) + ';' +
+			'try{fetch(u+"/w-fetch").catch(()=>{})}catch(e){}' +
+			'try{const x=new XMLHttpRequest();x.open("GET",u+"/w-xhr");x.send()}catch(e){}' +
+			'try{new WebSocket(u.replace("http","ws")+"/w-ws")}catch(e){}' +
+			'try{importScripts(u+"/w-import.js")}catch(e){}' +
+			'postMessage("tried")';
+		const wk = new Worker(URL.createObjectURL(new Blob([code], {type: 'text/javascript'})));
+		tries.push(new Promise((r) => { wk.onmessage = r; wk.onerror = r; }));
+		await Promise.all(tries);
+		await new Promise((r) => setTimeout(r, 1500));
+		return kinds;
+	})(` + "`" + target + "`" + `)`
+	n, err := chromedp.Run(ctx, chromedp.Evaluate[int](attempts, chromedp.EvalAwaitPromise))
+	require.NoError(t, err)
+	time.Sleep(500 * time.Millisecond)
+	assert.Zero(t, w.count.Load(), "the loopback listener saw a connection")
+	out := rl.outgoing("file://" + html)
+	for u, reason := range out {
+		assert.NotEmpty(t, reason, "request to %s was not blocked", u)
+	}
+	t.Logf("%d kinds of request tried; the browser reported %d, all blocked: %v", n, len(out), out)
+}
