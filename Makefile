@@ -3,18 +3,23 @@ GO        ?= go
 WASM_EXEC := $(shell $(GO) env GOROOT)/lib/wasm/go_js_wasm_exec
 DEMO      := testdata/workshop.csv
 
-.PHONY: run test vet test-native test-wasm cli bench fuzz demo clean
+.PHONY: run page test vet test-native test-wasm cli bench bench-page fuzz demo clean
 
-## run: build the command-line tool and show the overview of the demo log
-run: cli
-	./bin/tracewright inspect $(DEMO)
+## run: build the page (dist/tracewright.html) and serve dist/ on 127.0.0.1:8080
+run: page
+	$(GO) run ./tools/serve -dir dist -addr 127.0.0.1:8080
 
-## test: vet, then every test natively and the core's tests under GOOS=js GOARCH=wasm (node)
+## page: build dist/tracewright.html, one self-contained file (prints its sha256)
+page:
+	$(GO) run ./tools/bundle -out dist/tracewright.html
+
+## test: vet, then every test natively (browser tests included: they need /usr/bin/chromium,
+## and skip without it outside CI) and the core's tests under GOOS=js GOARCH=wasm (node)
 test: vet test-native test-wasm
 
 vet:
 	$(GO) vet ./...
-	GOOS=js GOARCH=wasm $(GO) vet ./core/...
+	GOOS=js GOARCH=wasm $(GO) vet ./core/... ./wasm/
 
 test-native:
 	$(GO) test -count=1 ./...
@@ -31,6 +36,11 @@ cli:
 bench:
 	$(GO) test -run '^$$' -bench . -benchmem -benchtime 3x ./core/intake/
 	$(GO) test -run '^$$' -bench . -benchmem ./core/timestamp/
+
+## bench-page: the page in headless chromium: start-up, a 1M-event CSV to the overview, peak
+## memory, and the same intake natively in the same run
+bench-page:
+	$(GO) test -run '^$$' -bench BenchmarkPage -benchtime 1x -timeout 20m ./tools/bundle/
 
 ## fuzz: a short run of every fuzz target (FUZZTIME each)
 FUZZTIME ?= 30s

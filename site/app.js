@@ -77,14 +77,18 @@
   window.addEventListener('dragover', (e) => e.preventDefault());
   window.addEventListener('drop', (e) => e.preventDefault());
   $('file-input').addEventListener('change', (e) => { if (e.target.files.length) openFile(e.target.files[0]); e.target.value = ''; });
-  $('demo-button').addEventListener('click', () => {
+  function demoFile() {
     const node = $('tw-demo');
     const text = node.textContent.trim();
     let bytes;
     if (typeof Uint8Array.fromBase64 === 'function') bytes = Uint8Array.fromBase64(text);
     else { const bin = atob(text); bytes = new Uint8Array(bin.length); for (let i = 0; i < bin.length; i++) bytes[i] = bin.charCodeAt(i); }
-    openFile(new File([bytes], node.dataset.name));
-  });
+    return new File([bytes], node.dataset.name);
+  }
+  $('demo-button').addEventListener('click', () => openFile(demoFile()));
+  // Warm the engine up on the demo log while the user picks a file (see warm_up in
+  // core/engine): the browser compiles the engine's hot code well only after it has run.
+  ready.then(() => call('warm_up', null, demoFile())).catch(() => {});
   for (const id of ['back-button', 'problem-back', 'again-button']) $(id).addEventListener('click', () => show('start'));
 
   async function openFile(file) {
@@ -194,6 +198,7 @@
     $('progress-name').textContent = file.name;
     $('progress-bar').value = 0;
     $('progress-text').textContent = 'Starting…';
+    $('overview').dataset.ready = 'false';
     show('progress');
     const started = performance.now();
     try {

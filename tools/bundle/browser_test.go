@@ -34,7 +34,7 @@ var page struct {
 	err  error
 }
 
-func builtPage(t *testing.T) string {
+func builtPage(t testing.TB) string {
 	t.Helper()
 	page.once.Do(func() {
 		page.dir, page.err = os.MkdirTemp("", "tracewright-page-")
@@ -48,7 +48,7 @@ func builtPage(t *testing.T) string {
 
 // browser starts Debian's chromium headless with everything that would call home switched off,
 // and a fresh profile. Outside CI the test skips when there is no chromium; in CI it must run.
-func browser(t *testing.T) (context.Context, *requestLog) {
+func browser(t testing.TB) (context.Context, *requestLog) {
 	t.Helper()
 	if _, err := os.Stat(chromiumPath); err != nil {
 		if os.Getenv("CI") != "" {
@@ -171,7 +171,7 @@ func cliInspect(t *testing.T, file string) map[string]any {
 	return m
 }
 
-func shot(t *testing.T, ctx context.Context, name string) {
+func shot(t testing.TB, ctx context.Context, name string) {
 	png, err := chromedp.Run(ctx, chromedp.FullScreenshot(100))
 	require.NoError(t, err)
 	dir := os.Getenv("TRACEWRIGHT_SHOTS")
@@ -183,7 +183,7 @@ func shot(t *testing.T, ctx context.Context, name string) {
 	t.Logf("screenshot: %s", p)
 }
 
-func metrics(t *testing.T, ctx context.Context) map[string]string {
+func metrics(t testing.TB, ctx context.Context) map[string]string {
 	got, err := chromedp.Run(ctx, chromedp.Evaluate[map[string]string](
 		`Object.fromEntries([...document.querySelectorAll('[data-metric]')].map(e => [e.dataset.metric, e.dataset.value]))`))
 	require.NoError(t, err)
