@@ -17,6 +17,11 @@ import (
 // gcEvery is how many bytes are read between forced collections (see the package doc).
 const gcEvery = 64 << 20
 
+// yieldEvery is how many bytes are read between turns given to the worker's event loop. A
+// stream's chunks arrive as promise reactions, which run before any message, so without these
+// turns a "cancel" from the page would wait until the whole file was read.
+const yieldEvery = 4 << 20
+
 func main() {
 	e := engine.New()
 	self := js.Global()
@@ -64,11 +69,12 @@ func handle(e *engine.Engine, self js.Value, msg js.Value) {
 
 // fileReader reads a ReadableStream's chunks as an io.Reader.
 type fileReader struct {
-	reader  js.Value
-	buf     []byte
-	chunk   []byte
-	done    bool
-	sinceGC int
+	reader     js.Value
+	buf        []byte
+	chunk      []byte
+	done       bool
+	sinceGC    int
+	sinceYield int
 }
 
 func (r *fileReader) Read(p []byte) (int, error) {
@@ -97,6 +103,11 @@ func (r *fileReader) Read(p []byte) (int, error) {
 			r.sinceGC = 0
 			runtime.GC() // let go of the JS chunks read so far
 		}
+		r.sinceYield += n
+		if r.sinceYield >= yieldEvery {
+			r.sinceYield = 0
+			yield()
+		}
 	}
 	n := copy(p, r.buf)
 	r.buf = r.buf[n:]
@@ -108,6 +119,18 @@ func (r *fileReader) close() {
 	if !r.done {
 		r.reader.Call("cancel")
 	}
+}
+
+// yield lets the worker's event loop take its pending messages (setTimeout 0 is a task, not a
+// promise reaction).
+func yield() {
+	var resolveFn js.Func
+	resolveFn = js.FuncOf(func(this js.Value, args []js.Value) any {
+		js.Global().Call("setTimeout", args[0], 0)
+		return nil
+	})
+	defer resolveFn.Release()
+	await(js.Global().Get("Promise").New(resolveFn))
 }
 
 // await waits for a promise from a goroutine (the JS event loop runs meanwhile).

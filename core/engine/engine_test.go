@@ -7,6 +7,7 @@ import (
 	"os"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
@@ -143,6 +144,7 @@ func TestCancel(t *testing.T) {
 		if running {
 			break
 		}
+		time.Sleep(time.Millisecond) // wasm has one thread and no preemption: let the load run
 	}
 	c := e.Handle(context.Background(), req("cancel", 8, `{"id":7}`), nil, nil)
 	assert.Equal(t, true, roundTrip(t, map[string]any{"p": c.Payload})["p"].(map[string]any)["cancelled"])

@@ -23,6 +23,8 @@ import (
 	"github.com/chromedp/chromedp"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
+
+	"tracewright/core/synth"
 )
 
 const chromiumPath = "/usr/bin/chromium"
@@ -328,4 +330,43 @@ func TestNothingLeavesThePage(t *testing.T) {
 		assert.NotEmpty(t, reason, "request to %s was not blocked", u)
 	}
 	t.Logf("%d kinds of request tried; the browser reported %d, all blocked: %v", n, len(out), out)
+}
+
+// TestProgressAndCancel reads a large generated log, waits for the progress bar to move, cancels,
+// and expects the column step back with no overview and no error.
+func TestProgressAndCancel(t *testing.T) {
+	html := builtPage(t)
+	lg := synth.Generate(synth.Config{Seed: 3, Events: 600_000, Shifts: true})
+	big := filepath.Join(t.TempDir(), "big.csv")
+	f, err := os.Create(big)
+	require.NoError(t, err)
+	require.NoError(t, lg.WriteCSV(f, synth.Shuffled))
+	require.NoError(t, f.Close())
+	ctx, rl := browser(t)
+	require.NoError(t, chromedp.Do(ctx,
+		chromedp.Navigate("file://"+html),
+		chromedp.WaitVisible(chromedp.CSS(`body[data-engine="ready"]`)),
+		chromedp.SetUploadFiles(chromedp.CSS(`#file-input`), []string{big}),
+		chromedp.WaitVisible(chromedp.CSS(`#mapping`)),
+		chromedp.Click(chromedp.CSS(`#read-button`)),
+		chromedp.WaitVisible(chromedp.CSS(`#progress`)),
+	))
+	// wait until some progress has been reported, then cancel
+	for i := 0; i < 200; i++ {
+		v, err := chromedp.Run(ctx, chromedp.Evaluate[float64](`document.getElementById('progress-bar').value`))
+		require.NoError(t, err)
+		if v > 0 {
+			break
+		}
+		time.Sleep(20 * time.Millisecond)
+	}
+	shot(t, ctx, "progress")
+	require.NoError(t, chromedp.Do(ctx,
+		chromedp.Click(chromedp.CSS(`#cancel-button`)),
+		chromedp.WaitVisible(chromedp.CSS(`#mapping`)),
+	))
+	state, err := chromedp.Run(ctx, chromedp.Evaluate[string](`document.body.dataset.state`))
+	require.NoError(t, err)
+	assert.Equal(t, "mapping", state)
+	assert.Empty(t, rl.failures)
 }
