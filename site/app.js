@@ -273,11 +273,14 @@
     }
     $('paths-summary').textContent = 'The ' + o.top_variants.length + ' most common of ' + fmtInt(o.variants) + ' paths cover ' + (o.top_variants_share * 100).toFixed(0) + '% of cases.';
     const t = $('activities');
-    t.replaceChildren(el('thead', {}, el('tr', {}, el('th', { scope: 'col', text: 'Activity' }), el('th', { scope: 'col', class: 'num', text: 'Events' }),
-      el('th', { scope: 'col', class: 'num', text: 'Cases' }), el('th', { scope: 'col', class: 'num', text: 'Share of cases' }))));
+    const paired = o.activity_instances !== o.events; // start and end events were paired
+    const num = (text) => el('th', { scope: 'col', class: 'num', text });
+    t.replaceChildren(el('thead', {}, el('tr', {}, el('th', { scope: 'col', text: 'Activity' }), paired ? num('Times done') : null,
+      num('Events'), num('Cases'), num('Share of cases'))));
     const tb = el('tbody');
     for (const a of o.activity_counts) {
-      tb.append(el('tr', {}, el('td', { text: a.name }), el('td', { class: 'num', text: fmtInt(a.events) }), el('td', { class: 'num', text: fmtInt(a.cases) }),
+      tb.append(el('tr', {}, el('td', { text: a.name }), paired ? el('td', { class: 'num', text: fmtInt(a.instances) }) : null,
+        el('td', { class: 'num', text: fmtInt(a.events) }), el('td', { class: 'num', text: fmtInt(a.cases) }),
         el('td', { class: 'num', text: (100 * a.cases / o.cases).toFixed(1) + '%' })));
     }
     t.append(tb);
