@@ -170,7 +170,11 @@ func (e *Engine) sniff(raw json.RawMessage, f *File) (*SniffResult, error) {
 			return nil, fmt.Errorf("sniff options: %w", err)
 		}
 	}
-	comma, err := separator(so.Separator)
+	comma, err := intake.SeparatorOf(so.Separator)
+	if err != nil {
+		return nil, err
+	}
+	header, err := intake.HeaderModeOf(so.Header)
 	if err != nil {
 		return nil, err
 	}
@@ -184,7 +188,7 @@ func (e *Engine) sniff(raw json.RawMessage, f *File) (*SniffResult, error) {
 		if err != nil {
 			return nil, err
 		}
-		if res.CSV, err = intake.SniffCSV(head, comma, headerMode(so.Header)); err != nil {
+		if res.CSV, err = intake.SniffCSV(head, comma, header); err != nil {
 			return nil, err
 		}
 	}
@@ -221,10 +225,12 @@ func (e *Engine) load(ctx context.Context, req Request, f *File, emit func(Respo
 	opt := intake.Options{Size: f.Size, MaxReported: 20}
 	opt.CSV.Mapping, opt.CSV.TimeFormat = lo.Mapping, lo.TimeFormat
 	var err error
-	if opt.CSV.Comma, err = separator(lo.Separator); err != nil {
+	if opt.CSV.Comma, err = intake.SeparatorOf(lo.Separator); err != nil {
 		return nil, err
 	}
-	opt.CSV.Header = headerMode(lo.Header)
+	if opt.CSV.Header, err = intake.HeaderModeOf(lo.Header); err != nil {
+		return nil, err
+	}
 	if lo.SkipBad {
 		opt.OnError = intake.Skip
 	}
@@ -341,27 +347,4 @@ func parseTimes(raw json.RawMessage) ([]TimeCheck, error) {
 		out = append(out, c)
 	}
 	return out, nil
-}
-
-func separator(s string) (byte, error) {
-	switch s {
-	case "":
-		return 0, nil
-	case "tab", "\t":
-		return '\t', nil
-	}
-	if len(s) != 1 {
-		return 0, fmt.Errorf("the separator must be one character, not %q", s)
-	}
-	return s[0], nil
-}
-
-func headerMode(s string) intake.HeaderMode {
-	switch s {
-	case "yes":
-		return intake.HeaderPresent
-	case "no":
-		return intake.HeaderAbsent
-	}
-	return intake.HeaderAuto
 }

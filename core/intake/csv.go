@@ -255,6 +255,33 @@ func ReadCSV(ctx context.Context, r io.Reader, opt CSVOptions) (*eventlog.Log, *
 	return l, rep, nil
 }
 
+// SeparatorOf reads a separator as people name it: "" (find it), "tab", or one character.
+func SeparatorOf(s string) (byte, error) {
+	switch s {
+	case "":
+		return 0, nil
+	case "tab", "\t":
+		return '\t', nil
+	}
+	if len(s) != 1 {
+		return 0, fmt.Errorf("the separator must be one character or \"tab\", not %q", s)
+	}
+	return s[0], nil
+}
+
+// HeaderModeOf reads "yes", "no", or "auto" (or "") for whether the first row is a header.
+func HeaderModeOf(s string) (HeaderMode, error) {
+	switch s {
+	case "", "auto":
+		return HeaderAuto, nil
+	case "yes":
+		return HeaderPresent, nil
+	case "no":
+		return HeaderAbsent, nil
+	}
+	return HeaderAuto, fmt.Errorf("the header setting is yes, no or auto, not %q", s)
+}
+
 type columnIndexes struct {
 	cas, act, time, start, res, life int
 	attr                             []bool

@@ -135,24 +135,12 @@ func (r *readFlags) options(size int64) (intake.Options, error) {
 	o := intake.Options{Size: size}
 	o.CSV.Mapping = r.m
 	o.CSV.TimeFormat = r.timeFormat
-	switch r.sep {
-	case "":
-	case "tab", `\t`:
-		o.CSV.Comma = '\t'
-	default:
-		if len(r.sep) != 1 {
-			return o, &usageError{fmt.Sprintf("--separator takes one character, not %q", r.sep)}
-		}
-		o.CSV.Comma = r.sep[0]
+	var err error
+	if o.CSV.Comma, err = intake.SeparatorOf(r.sep); err != nil {
+		return o, &usageError{"--separator: " + err.Error()}
 	}
-	switch r.header {
-	case "auto", "":
-	case "yes":
-		o.CSV.Header = intake.HeaderPresent
-	case "no":
-		o.CSV.Header = intake.HeaderAbsent
-	default:
-		return o, &usageError{fmt.Sprintf("--header takes yes, no or auto, not %q", r.header)}
+	if o.CSV.Header, err = intake.HeaderModeOf(r.header); err != nil {
+		return o, &usageError{"--header: " + err.Error()}
 	}
 	o.XES.Classifier = r.classifier
 	if r.skip {
