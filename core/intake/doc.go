@@ -19,5 +19,6 @@
 //
 // Deviations from the standards, each for files seen in practice: CSV lines may end in LF alone;
 // a quote inside an unquoted field is kept as text; empty lines are passed over. Text that is not
-// UTF-8 is read as Windows-1252 with a warning, and UTF-16 with a byte-order mark is converted.
+// UTF-8 is read as Windows-1252 with a warning, UTF-16 with a byte-order mark is converted, and a
+// binary file (a spreadsheet, an archive) is refused with the offending byte.
 package intake

@@ -1,11 +1,12 @@
 package intake
 
 import (
+	"bufio"
+	"bytes"
 	"context"
-	"encoding/xml"
-	"errors"
 	"fmt"
 	"io"
+	"regexp"
 	"strings"
 
 	"tracewright/core/eventlog"
@@ -42,18 +43,6 @@ const (
 
 var xsDateTime, _ = timestamp.ParseFormat("YYYY-MM-DDThh:mm[:ss[.f]][Z]")
 
-// charsetReader lets the XML decoder read the encodings XES files declare besides UTF-8. UTF-16
-// arrives here already converted by Open, so it passes through.
-func charsetReader(label string, input io.Reader) (io.Reader, error) {
-	switch strings.ToLower(label) {
-	case "utf-8", "utf8", "us-ascii", "ascii", "utf-16", "utf16", "utf-16le", "utf-16be":
-		return input, nil
-	case "iso-8859-1", "latin1", "latin-1", "iso8859-1", "windows-1252", "cp1252":
-		return newCP1252Reader(input), nil
-	}
-	return nil, fmt.Errorf("%w: the file declares the encoding %q; save it as UTF-8", ErrUnsupported, label)
-}
-
 // countingReader counts the bytes read through it, for progress over a compressed file.
 type countingReader struct {
 	r io.Reader
@@ -73,7 +62,7 @@ type xesEvent struct {
 
 type xesReader struct {
 	ctx   context.Context
-	d     *xml.Decoder
+	s     *xmlScanner
 	cr    *countingReader
 	opt   XESOptions
 	b     *eventlog.Builder
@@ -95,10 +84,12 @@ type xesReader struct {
 // counted in Log.Untimed.
 func ReadXES(ctx context.Context, r io.Reader, opt XESOptions) (*eventlog.Log, *Report, error) {
 	cr := &countingReader{r: r}
-	x := &xesReader{ctx: ctx, cr: cr, d: xml.NewDecoder(cr), opt: opt, b: eventlog.NewBuilder(),
+	text, err := declaredEncoding(cr)
+	if err != nil {
+		return nil, &Report{Format: "xes", Problems: newProblems(opt.MaxReported)}, err
+	}
+	x := &xesReader{ctx: ctx, cr: cr, s: newXMLScanner(ctx, text), opt: opt, b: eventlog.NewBuilder(),
 		rep: &Report{Format: "xes", Problems: newProblems(opt.MaxReported)}, meta: eventlog.Meta{Format: "xes"}}
-	x.d.Strict = true
-	x.d.CharsetReader = charsetReader
 	if err := x.run(); err != nil {
 		return nil, x.rep, err
 	}
@@ -121,31 +112,35 @@ func ReadXES(ctx context.Context, r io.Reader, opt XESOptions) (*eventlog.Log, *
 	return l, x.rep, nil
 }
 
-func (x *xesReader) syntax(err error) error {
-	line, col := x.d.InputPos()
-	var se *xml.SyntaxError
-	if errors.As(err, &se) {
-		return &SyntaxError{Line: se.Line, Column: col, Err: fmt.Errorf("%w: %s", ErrXES, se.Msg)}
+var encodingDecl = regexp.MustCompile(`^\s*<\?xml[^>]*?encoding\s*=\s*["']([A-Za-z0-9._-]+)["']`)
+
+// declaredEncoding reads the XML declaration's encoding (XML 1.0 section 4.3.3) and returns the
+// text as UTF-8. UTF-16 arrives here already converted by Open.
+func declaredEncoding(r io.Reader) (io.Reader, error) {
+	br := bufio.NewReaderSize(r, 4096)
+	head, _ := br.Peek(512)
+	head = bytes.TrimPrefix(head, []byte("\xef\xbb\xbf"))
+	m := encodingDecl.FindSubmatch(head)
+	if m == nil {
+		return br, nil
 	}
-	if errors.Is(err, io.EOF) || errors.Is(err, io.ErrUnexpectedEOF) {
-		return &SyntaxError{Line: line, Column: col, Err: fmt.Errorf("%w: the file ends inside an element", ErrXES)}
+	switch strings.ToLower(string(m[1])) {
+	case "utf-8", "utf8", "us-ascii", "ascii", "utf-16", "utf16", "utf-16le", "utf-16be":
+		return br, nil
+	case "iso-8859-1", "latin1", "latin-1", "iso8859-1", "windows-1252", "cp1252":
+		return newCP1252Reader(br), nil
 	}
-	if ctxErr := x.ctx.Err(); ctxErr != nil {
-		return ctxErr
-	}
-	return &SyntaxError{Line: line, Column: col, Err: fmt.Errorf("%w: %w", ErrXES, err)}
+	return nil, &SyntaxError{Line: 1, Column: bytes.Index(head, m[1]) + 1,
+		Err: fmt.Errorf("%w: the file declares the encoding %q; save it as UTF-8", ErrUnsupported, m[1])}
 }
 
-func (x *xesReader) token() (xml.Token, error) {
-	tok, err := x.d.Token()
+func (x *xesReader) token() (*xmlToken, error) {
+	tok, err := x.s.next()
 	if err != nil {
 		return nil, err
 	}
 	if x.cr.n-x.lastProgress >= 1<<20 {
 		x.lastProgress = x.cr.n
-		if err := x.ctx.Err(); err != nil {
-			return nil, err
-		}
 		if x.opt.Progress != nil {
 			x.opt.Progress(Progress{Bytes: x.cr.n, Total: x.opt.Size, Events: x.b.NumEvents()})
 		}
@@ -153,42 +148,48 @@ func (x *xesReader) token() (xml.Token, error) {
 	return tok, nil
 }
 
+// unexpectedEnd is the error for a document that ends where an element must go on.
+func (x *xesReader) unexpectedEnd() error {
+	return x.s.errAt(x.s.pos, "the file ends inside an element")
+}
+
 func (x *xesReader) run() error {
-	// find <log>
-	for {
-		tok, err := x.token()
-		if err == io.EOF {
+	tok, err := x.token()
+	if err != nil {
+		return err
+	}
+	if tok.kind != xmlStart || string(tok.name) != "log" {
+		if tok.kind == xmlEOF {
 			return fmt.Errorf("%w: no <log> element", ErrXES)
 		}
-		if err != nil {
-			return x.syntax(err)
-		}
-		if se, ok := tok.(xml.StartElement); ok {
-			if se.Name.Local != "log" {
-				line, col := x.d.InputPos()
-				return &SyntaxError{Line: line, Column: col, Err: fmt.Errorf("%w: the root element is <%s>, not <log>", ErrXES, se.Name.Local)}
-			}
-			break
-		}
+		return &SyntaxError{Line: tok.line, Column: tok.col, Err: fmt.Errorf("%w: the root element is <%s>, not <log>", ErrXES, tok.name)}
 	}
 	for {
 		tok, err := x.token()
 		if err != nil {
-			return x.syntax(err)
+			return err
 		}
-		switch t := tok.(type) {
-		case xml.EndElement:
+		switch tok.kind {
+		case xmlEOF:
+			return x.unexpectedEnd()
+		case xmlEnd:
+			if _, err := x.token(); err != nil { // the end of the document, or what follows it
+				return err
+			}
 			return x.finishClassifier()
-		case xml.StartElement:
-			switch t.Name.Local {
+		case xmlStart:
+			switch string(tok.name) {
 			case "extension":
-				x.meta.Extensions = append(x.meta.Extensions, eventlog.Extension{Name: attr(t, "name"), Prefix: attr(t, "prefix"), URI: attr(t, "uri")})
-				if err := x.d.Skip(); err != nil {
-					return x.syntax(err)
+				name, _ := tok.attr("name")
+				prefix, _ := tok.attr("prefix")
+				uri, _ := tok.attr("uri")
+				x.meta.Extensions = append(x.meta.Extensions, eventlog.Extension{Name: name, Prefix: prefix, URI: uri})
+				if err := x.s.skip(); err != nil {
+					return err
 				}
 			case "global":
 				lvl := eventlog.EventLevel
-				if attr(t, "scope") == "trace" {
+				if scope, _ := tok.attr("scope"); scope == "trace" {
 					lvl = eventlog.CaseLevel
 				}
 				kids, err := x.children()
@@ -199,26 +200,28 @@ func (x *xesReader) run() error {
 					x.meta.Globals = append(x.meta.Globals, eventlog.Global{Level: lvl, Attr: k})
 				}
 			case "classifier":
-				x.meta.Classifiers = append(x.meta.Classifiers, eventlog.Classifier{Name: attr(t, "name"), Keys: splitKeys(attr(t, "keys"))})
-				if err := x.d.Skip(); err != nil {
-					return x.syntax(err)
+				name, _ := tok.attr("name")
+				keys, _ := tok.attr("keys")
+				x.meta.Classifiers = append(x.meta.Classifiers, eventlog.Classifier{Name: name, Keys: splitKeys(keys)})
+				if err := x.s.skip(); err != nil {
+					return err
 				}
 			case "trace":
 				if err := x.finishClassifier(); err != nil {
 					return err
 				}
-				if err := x.readTrace(); err != nil {
+				if err := x.readTrace(tok.line); err != nil {
 					return err
 				}
 			default:
-				if _, ok := xesKinds[t.Name.Local]; ok {
-					n, err := x.attribute(t)
+				if _, ok := xesKinds[string(tok.name)]; ok {
+					n, err := x.attribute(tok)
 					if err != nil {
 						return err
 					}
 					x.meta.Attrs = append(x.meta.Attrs, n)
-				} else if err := x.d.Skip(); err != nil { // unknown elements are passed over
-					return x.syntax(err)
+				} else if err := x.s.skip(); err != nil { // unknown elements are passed over
+					return err
 				}
 			}
 		}
@@ -267,31 +270,14 @@ func splitKeys(s string) []string {
 	return out
 }
 
-func attr(se xml.StartElement, name string) string {
-	for _, a := range se.Attr {
-		if a.Name.Local == name {
-			return a.Value
-		}
-	}
-	return ""
-}
-
-func hasAttr(se xml.StartElement, name string) bool {
-	for _, a := range se.Attr {
-		if a.Name.Local == name {
-			return true
-		}
-	}
-	return false
-}
-
 // attribute reads one attribute element and what it nests: a list's <values>, a container's
 // members, or the meta-attributes any attribute may carry (IEEE 1849-2016, section 5.3).
-func (x *xesReader) attribute(se xml.StartElement) (eventlog.Nested, error) {
-	n := eventlog.Nested{Type: se.Name.Local, Key: attr(se, "key"), Value: attr(se, "value")}
-	if !hasAttr(se, "key") {
-		line, col := x.d.InputPos()
-		return n, &SyntaxError{Line: line, Column: col, Err: fmt.Errorf("%w: <%s> without a key", ErrXES, se.Name.Local)}
+func (x *xesReader) attribute(tok *xmlToken) (eventlog.Nested, error) {
+	key, hasKey := tok.attr("key")
+	value, _ := tok.attr("value")
+	n := eventlog.Nested{Type: string(tok.name), Key: key, Value: value}
+	if !hasKey {
+		return n, &SyntaxError{Line: tok.line, Column: tok.col, Err: fmt.Errorf("%w: <%s> without a key", ErrXES, tok.name)}
 	}
 	kids, err := x.children()
 	n.Children = kids
@@ -305,13 +291,15 @@ func (x *xesReader) children() ([]eventlog.Nested, error) {
 	for {
 		tok, err := x.token()
 		if err != nil {
-			return nil, x.syntax(err)
+			return nil, err
 		}
-		switch t := tok.(type) {
-		case xml.EndElement:
+		switch tok.kind {
+		case xmlEOF:
+			return nil, x.unexpectedEnd()
+		case xmlEnd:
 			return out, nil
-		case xml.StartElement:
-			if t.Name.Local == "values" {
+		case xmlStart:
+			if string(tok.name) == "values" {
 				kids, err := x.children()
 				if err != nil {
 					return nil, err
@@ -319,13 +307,13 @@ func (x *xesReader) children() ([]eventlog.Nested, error) {
 				out = append(out, kids...)
 				continue
 			}
-			if _, ok := xesKinds[t.Name.Local]; !ok {
-				if err := x.d.Skip(); err != nil {
-					return nil, x.syntax(err)
+			if _, ok := xesKinds[string(tok.name)]; !ok {
+				if err := x.s.skip(); err != nil {
+					return nil, err
 				}
 				continue
 			}
-			n, err := x.attribute(t)
+			n, err := x.attribute(tok)
 			if err != nil {
 				return nil, err
 			}
@@ -334,22 +322,23 @@ func (x *xesReader) children() ([]eventlog.Nested, error) {
 	}
 }
 
-func (x *xesReader) readTrace() error {
+func (x *xesReader) readTrace(traceLine int) error {
 	x.trace++
-	traceLine, _ := x.d.InputPos()
 	var tattrs []eventlog.Nested
 	var events []xesEvent
 	for {
 		tok, err := x.token()
 		if err != nil {
-			return x.syntax(err)
+			return err
 		}
-		switch t := tok.(type) {
-		case xml.EndElement:
+		switch tok.kind {
+		case xmlEOF:
+			return x.unexpectedEnd()
+		case xmlEnd:
 			return x.addTrace(traceLine, tattrs, events)
-		case xml.StartElement:
-			if t.Name.Local == "event" {
-				line, _ := x.d.InputPos()
+		case xmlStart:
+			if string(tok.name) == "event" {
+				line := tok.line
 				kids, err := x.children()
 				if err != nil {
 					return err
@@ -358,16 +347,16 @@ func (x *xesReader) readTrace() error {
 				x.rep.Rows++
 				continue
 			}
-			if _, ok := xesKinds[t.Name.Local]; ok {
-				n, err := x.attribute(t)
+			if _, ok := xesKinds[string(tok.name)]; ok {
+				n, err := x.attribute(tok)
 				if err != nil {
 					return err
 				}
 				tattrs = append(tattrs, n)
 				continue
 			}
-			if err := x.d.Skip(); err != nil {
-				return x.syntax(err)
+			if err := x.s.skip(); err != nil {
+				return err
 			}
 		}
 	}
