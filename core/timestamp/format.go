@@ -411,19 +411,19 @@ func parseISOSeconds(b []byte, sep byte) (int64, bool) {
 	if b[4] != '-' || b[7] != '-' || b[10] != sep || b[13] != ':' || b[16] != ':' {
 		return 0, false
 	}
-	var d [14]int64
-	k := 0
-	for _, i := range [...]int{0, 1, 2, 3, 5, 6, 8, 9, 11, 12, 14, 15, 17, 18} {
-		c := b[i] - '0'
-		if c > 9 {
-			return 0, false
-		}
-		d[k] = int64(c)
-		k++
+	_ = b[18]
+	d0, d1, d2, d3 := b[0]-'0', b[1]-'0', b[2]-'0', b[3]-'0'
+	m0, m1, dd0, dd1 := b[5]-'0', b[6]-'0', b[8]-'0', b[9]-'0'
+	h0, h1, n0, n1, s0, s1 := b[11]-'0', b[12]-'0', b[14]-'0', b[15]-'0', b[17]-'0', b[18]-'0'
+	// a byte below '0' wraps around to a large value, so one comparison per digit suffices
+	if d0 > 9 || d1 > 9 || d2 > 9 || d3 > 9 || m0 > 9 || m1 > 9 || dd0 > 9 || dd1 > 9 ||
+		h0 > 9 || h1 > 9 || n0 > 9 || n1 > 9 || s0 > 9 || s1 > 9 {
+		return 0, false
 	}
 	v := fields{
-		year: d[0]*1000 + d[1]*100 + d[2]*10 + d[3], month: d[4]*10 + d[5], day: d[6]*10 + d[7],
-		hour: d[8]*10 + d[9], min: d[10]*10 + d[11], sec: d[12]*10 + d[13],
+		year:  int64(d0)*1000 + int64(d1)*100 + int64(d2)*10 + int64(d3),
+		month: int64(m0)*10 + int64(m1), day: int64(dd0)*10 + int64(dd1),
+		hour: int64(h0)*10 + int64(h1), min: int64(n0)*10 + int64(n1), sec: int64(s0)*10 + int64(s1),
 	}
 	return v.unix(false)
 }
