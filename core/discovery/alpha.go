@@ -14,10 +14,10 @@ type Relation uint8
 
 // The four footprint relations: a → b (a > b, not b > a), b ← a, a ∥ b (both), a # b (neither).
 const (
-	Choice Relation = iota // #
-	Causal                 // →
-	Reverse                // ←
-	Parallel               // ∥
+	Choice   Relation = iota // #
+	Causal                   // →
+	Reverse                  // ←
+	Parallel                 // ∥
 )
 
 func (r Relation) String() string { return [...]string{"#", "→", "←", "∥"}[r] }

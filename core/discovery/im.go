@@ -314,4 +314,3 @@ func loopSplit(t []int32, part map[int32]int) (body, redo [][]int32) {
 	}
 	return body, redo
 }
-
