@@ -2,9 +2,12 @@ package discovery
 
 import (
 	"errors"
+	"fmt"
 	"math/bits"
 	"slices"
 	"strings"
+
+	"tracewright/core/petri"
 )
 
 // Relation is one cell of a log's footprint (van der Aalst, Process Mining, 2011, section 5.2;
@@ -198,4 +201,33 @@ func Alpha(l Log) (AlphaNet, error) {
 	net.Places = append(net.Places, places...)
 	net.Places = append(net.Places, AlphaPlace{In: ends})
 	return net, nil
+}
+
+// PetriNet builds the alpha net as a Petri net: a transition per activity, the places as found,
+// one token in the source place initially and in the sink place at the end.
+func (a AlphaNet) PetriNet() *petri.Net {
+	n := &petri.Net{Name: "alpha"}
+	tr := map[string]int{}
+	for i, t := range a.Transitions {
+		tr[t] = n.AddTransition(fmt.Sprintf("t%d", i+1), t, nil, nil)
+	}
+	var source, sink int
+	for i, p := range a.Places {
+		id := n.AddPlace(fmt.Sprintf("p%d", i+1), "")
+		if len(p.In) == 0 {
+			source = id
+		}
+		if len(p.Out) == 0 {
+			sink = id
+		}
+		for _, x := range p.In {
+			n.Transitions[tr[x]].Out = append(n.Transitions[tr[x]].Out, id)
+		}
+		for _, x := range p.Out {
+			n.Transitions[tr[x]].In = append(n.Transitions[tr[x]].In, id)
+		}
+	}
+	n.Initial = n.Marking(source)
+	n.Final = n.Marking(sink)
+	return n
 }

@@ -47,3 +47,11 @@ func TestAlphaPlacesL1(t *testing.T) {
 		{In: []string{"d"}},
 	}, net.Places)
 }
+
+// TestAlphaNetIsSound: for L1 the alpha net is a sound workflow net (Process Mining, 2011,
+// section 5.2, from memory: L1 is one of the book's examples where alpha succeeds).
+func TestAlphaNetIsSound(t *testing.T) {
+	net, err := Alpha(l1())
+	require.NoError(t, err)
+	assert.NoError(t, net.PetriNet().Sound(10000))
+}

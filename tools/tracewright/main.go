@@ -5,6 +5,8 @@
 //	tracewright inspect LOG [--json] [reading flags]
 //	tracewright columns LOG [--json] [reading flags]   the proposed column roles of a CSV file
 //	tracewright convert LOG --to xes|csv [--out FILE] [--force] [reading flags]
+//	tracewright dfg LOG [--activities SHARE] [--edges SHARE]   the directly-follows graph as JSON
+//	tracewright discover LOG [--method im|imd|alpha] [--noise F] [--out NET.pnml] [--dot NET.dot]
 //	tracewright version
 //
 // Reading flags: --case, --activity, --time, --start, --resource, --lifecycle name CSV columns
@@ -25,7 +27,6 @@ import (
 	"io"
 	"os"
 	"os/signal"
-	"path/filepath"
 	"strings"
 
 	"tracewright/core/engine"
@@ -63,6 +64,8 @@ const usage = `usage:
   tracewright inspect LOG [--json] [reading flags]
   tracewright columns LOG [--json] [reading flags]
   tracewright convert LOG --to xes|csv [--out FILE] [--force] [reading flags]
+  tracewright dfg LOG [--activities SHARE] [--edges SHARE] [reading flags]
+  tracewright discover LOG [--method im|imd|alpha] [--noise F] [--out NET.pnml] [--dot NET.dot] [--json]
   tracewright version
 
 reading flags:
@@ -87,6 +90,10 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		err = columns(args[1:], stdout)
 	case "convert":
 		err = convert(ctx, args[1:], stdout)
+	case "dfg":
+		err = dfgCommand(ctx, args[1:], stdout)
+	case "discover":
+		err = discoverCommand(ctx, args[1:], stdout)
 	case "version", "--version":
 		fmt.Fprintln(stdout, "tracewright", engine.Version)
 	case "help", "-h", "--help":
@@ -313,23 +320,7 @@ func convert(ctx context.Context, args []string, stdout io.Writer) error {
 	if *out == "" {
 		return write(stdout, l)
 	}
-	// Write beside the target and rename, so a failed write never leaves half a file.
-	tmp, err := os.CreateTemp(filepath.Dir(*out), ".tracewright-*")
-	if err != nil {
-		return &ioError{err}
-	}
-	defer os.Remove(tmp.Name())
-	if err := write(tmp, l); err != nil {
-		tmp.Close()
-		return &ioError{err}
-	}
-	if err := tmp.Close(); err != nil {
-		return &ioError{err}
-	}
-	if err := os.Rename(tmp.Name(), *out); err != nil {
-		return &ioError{err}
-	}
-	return nil
+	return writeFile(*out, func(w io.Writer) error { return write(w, l) })
 }
 
 // checkOutput refuses to write over the input, and over any existing file without --force.

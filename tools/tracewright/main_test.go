@@ -12,6 +12,8 @@ import (
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
+
+	"tracewright/core/petri"
 )
 
 var update = flag.Bool("update", false, "rewrite the golden files")
@@ -118,4 +120,33 @@ func TestColumns(t *testing.T) {
 	assert.Contains(t, out, `separator ";"`)
 	assert.Contains(t, out, "Started")
 	assert.Contains(t, out, "start")
+}
+
+func TestDiscoverAndDFG(t *testing.T) {
+	dir := t.TempDir()
+	pnml := filepath.Join(dir, "net.pnml")
+	code, out, errs := runCLI("discover", "testdata/small.csv", "--out", pnml, "--json")
+	require.Equal(t, exitOK, code, errs)
+	var res map[string]any
+	require.NoError(t, json.Unmarshal([]byte(out), &res))
+	assert.Equal(t, true, res["sound"])
+	// Register claim, Inspect bike, then a choice between handing over and rejecting
+	assert.Equal(t, "→(Register claim, Inspect bike, ×(Hand over bike, Reject claim))", res["tree"])
+	f, err := os.Open(pnml)
+	require.NoError(t, err)
+	defer f.Close()
+	net, err := petri.ReadPNML(f)
+	require.NoError(t, err)
+	assert.NoError(t, net.Sound(1000))
+
+	code, _, errs = runCLI("discover", "testdata/small.csv", "--out", pnml)
+	assert.Equal(t, exitUsage, code)
+	assert.Contains(t, errs, "--force")
+
+	code, out, errs = runCLI("dfg", "testdata/small.csv")
+	require.Equal(t, exitOK, code, errs)
+	var g map[string]any
+	require.NoError(t, json.Unmarshal([]byte(out), &g))
+	assert.Len(t, g["nodes"], 6) // start, end and four activities
+	assert.Len(t, g["edges"], 6) // start, register, inspect, then hand over or reject, end
 }
