@@ -1,0 +1,245 @@
+package layout
+
+import (
+	"slices"
+	"sort"
+)
+
+// layered is the graph with ranks, dummy nodes and an order within each rank.
+type layered struct {
+	n      int     // nodes, real ones first
+	real   int     // how many are real
+	rank   []int
+	layers [][]int // node ids by rank, in order
+	pos    []int   // index of each node within its layer
+	up     [][]int // neighbours one rank up, with multiplicity
+	down   [][]int
+	segs   [][2]int // every segment between adjacent ranks
+	chains [][]int  // per input edge: its nodes from the upper end to the lower end
+	flip   []bool   // per input edge: drawn against the DAG's direction
+	width  []float64
+}
+
+// build adds dummy chains for every input edge (self-loops get none).
+func build(g Graph, rank []int, dagOf func(e Edge) (int, int, bool)) *layered {
+	L := &layered{real: len(g.Width), rank: slices.Clone(rank), width: slices.Clone(g.Width)}
+	L.n = L.real
+	L.chains = make([][]int, len(g.Edges))
+	L.flip = make([]bool, len(g.Edges))
+	for i, e := range g.Edges {
+		if e.From == e.To {
+			continue
+		}
+		a, b, flipped := dagOf(e)
+		L.flip[i] = flipped
+		chain := []int{a}
+		for r := L.rank[a] + 1; r < L.rank[b]; r++ {
+			L.rank = append(L.rank, r)
+			L.width = append(L.width, 0)
+			chain = append(chain, L.n)
+			L.n++
+		}
+		chain = append(chain, b)
+		L.chains[i] = chain
+	}
+	L.up = make([][]int, L.n)
+	L.down = make([][]int, L.n)
+	for _, c := range L.chains {
+		for k := 1; k < len(c); k++ {
+			L.down[c[k-1]] = append(L.down[c[k-1]], c[k])
+			L.up[c[k]] = append(L.up[c[k]], c[k-1])
+			L.segs = append(L.segs, [2]int{c[k-1], c[k]})
+		}
+	}
+	maxRank := 0
+	for _, r := range L.rank {
+		maxRank = max(maxRank, r)
+	}
+	L.layers = make([][]int, maxRank+1)
+	L.pos = make([]int, L.n)
+	return L
+}
+
+// initialOrder places nodes by a breadth-first walk from the top rank (Gansner et al. 1993,
+// init_order), or, when seeds are given, by the seed position of each node that has one.
+func (L *layered) initialOrder(seed []float64) {
+	for r := range L.layers {
+		L.layers[r] = L.layers[r][:0]
+	}
+	seen := make([]bool, L.n)
+	var queue []int
+	for v := 0; v < L.n; v++ {
+		if len(L.up[v]) == 0 && v < L.real {
+			queue = append(queue, v)
+		}
+	}
+	var order []int
+	for len(queue) > 0 || len(order) < L.n {
+		if len(queue) == 0 {
+			for v := 0; v < L.n; v++ {
+				if !seen[v] {
+					queue = append(queue, v)
+					break
+				}
+			}
+		}
+		v := queue[0]
+		queue = queue[1:]
+		if seen[v] {
+			continue
+		}
+		seen[v] = true
+		order = append(order, v)
+		queue = append(queue, L.down[v]...)
+	}
+	for _, v := range order {
+		L.layers[L.rank[v]] = append(L.layers[L.rank[v]], v)
+	}
+	if seed != nil {
+		for r := range L.layers {
+			// nodes with a seed keep their old relative order; the others stay where BFS put them
+			layer := L.layers[r]
+			key := make(map[int]float64, len(layer))
+			for i, v := range layer {
+				key[v] = float64(i)
+				if v < len(seed) && seed[v] >= 0 {
+					key[v] = seed[v] * float64(len(layer))
+				}
+			}
+			sort.SliceStable(layer, func(i, j int) bool { return key[layer[i]] < key[layer[j]] })
+		}
+	}
+	L.reindex()
+}
+
+func (L *layered) reindex() {
+	for _, layer := range L.layers {
+		for i, v := range layer {
+			L.pos[v] = i
+		}
+	}
+}
+
+func (L *layered) crossings() int { return countCrossings(L.layers, L.pos, L.segs, L.rank) }
+
+// medianValue is the weighted median of the neighbours' positions (Gansner et al. 1993, figure
+// 3-2), or -1 for a node without neighbours there.
+func medianValue(ps []int) float64 {
+	slices.Sort(ps)
+	m := len(ps) / 2
+	switch {
+	case len(ps) == 0:
+		return -1
+	case len(ps)%2 == 1:
+		return float64(ps[m])
+	case len(ps) == 2:
+		return float64(ps[0]+ps[1]) / 2
+	}
+	left := float64(ps[m-1] - ps[0])
+	right := float64(ps[len(ps)-1] - ps[m])
+	if left+right == 0 {
+		return float64(ps[m-1]+ps[m]) / 2
+	}
+	return (float64(ps[m-1])*right + float64(ps[m])*left) / (left + right)
+}
+
+// order runs median sweeps with transposition and keeps the order with the fewest crossings.
+func (L *layered) order(sweeps int) {
+	best := L.crossings()
+	bestLayers := cloneLayers(L.layers)
+	for it := 0; it < sweeps && best > 0; it++ {
+		down := it%2 == 0
+		L.medianSweep(down)
+		L.transpose()
+		if c := L.crossings(); c < best {
+			best = c
+			bestLayers = cloneLayers(L.layers)
+		}
+	}
+	L.layers = bestLayers
+	L.reindex()
+}
+
+func cloneLayers(ls [][]int) [][]int {
+	out := make([][]int, len(ls))
+	for i, l := range ls {
+		out[i] = slices.Clone(l)
+	}
+	return out
+}
+
+func (L *layered) medianSweep(down bool) {
+	rs := make([]int, 0, len(L.layers))
+	for r := range L.layers {
+		rs = append(rs, r)
+	}
+	if !down {
+		slices.Reverse(rs)
+	}
+	for _, r := range rs[1:] {
+		layer := L.layers[r]
+		med := make(map[int]float64, len(layer))
+		for _, v := range layer {
+			nb := L.up[v]
+			if !down {
+				nb = L.down[v]
+			}
+			ps := make([]int, len(nb))
+			for i, u := range nb {
+				ps[i] = L.pos[u]
+			}
+			med[v] = medianValue(ps)
+		}
+		// nodes without neighbours keep their places; the others are sorted by median
+		var movable []int
+		for _, v := range layer {
+			if med[v] >= 0 {
+				movable = append(movable, v)
+			}
+		}
+		sort.SliceStable(movable, func(i, j int) bool { return med[movable[i]] < med[movable[j]] })
+		k := 0
+		for i, v := range layer {
+			if med[v] >= 0 {
+				layer[i] = movable[k]
+				k++
+			}
+		}
+		for i, v := range layer {
+			L.pos[v] = i
+		}
+	}
+}
+
+// pairCrossings counts crossings between the edges of u and of v (u left of v) with the ranks
+// above and below.
+func (L *layered) pairCrossings(u, v int) int {
+	c := 0
+	for _, nb := range [2][][]int{L.up, L.down} {
+		for _, a := range nb[u] {
+			for _, b := range nb[v] {
+				if L.pos[a] > L.pos[b] {
+					c++
+				}
+			}
+		}
+	}
+	return c
+}
+
+// transpose swaps neighbours while that lowers crossings (Gansner et al. 1993, figure 3-3).
+func (L *layered) transpose() {
+	for improved, rounds := true, 0; improved && rounds < 20; rounds++ {
+		improved = false
+		for _, layer := range L.layers {
+			for i := 0; i+1 < len(layer); i++ {
+				u, v := layer[i], layer[i+1]
+				if L.pairCrossings(v, u) < L.pairCrossings(u, v) {
+					layer[i], layer[i+1] = v, u
+					L.pos[u], L.pos[v] = i+1, i
+					improved = true
+				}
+			}
+		}
+	}
+}
