@@ -7,8 +7,8 @@ import (
 
 // layered is the graph with ranks, dummy nodes and an order within each rank.
 type layered struct {
-	n      int     // nodes, real ones first
-	real   int     // how many are real
+	n      int // nodes, real ones first
+	real   int // how many are real
 	rank   []int
 	layers [][]int // node ids by rank, in order
 	pos    []int   // index of each node within its layer

@@ -120,7 +120,9 @@ func (L *layered) type1Conflicts() map[[2]int]bool {
 	return conf
 }
 
-func hasConflict(conf map[[2]int]bool, a, b int) bool { return conf[[2]int{a, b}] || conf[[2]int{b, a}] }
+func hasConflict(conf map[[2]int]bool, a, b int) bool {
+	return conf[[2]int{a, b}] || conf[[2]int{b, a}]
+}
 
 func (L *layered) verticalAlignment(layers [][]int, pos []int, nb [][]int, conf map[[2]int]bool) (root, align []int) {
 	root, align = make([]int, L.n), make([]int, L.n)
