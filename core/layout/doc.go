@@ -5,9 +5,8 @@
 // The steps follow Gansner, Koutsofios, North and Vo, "A technique for drawing directed graphs"
 // (IEEE TSE 1993), except the third:
 //
-//  1. Cycles are broken by reversing a small set of edges found by the greedy heuristic of Eades,
-//     Lin and Smyth (1993): sinks go last, sources first, then the node with the largest
-//     out-degree minus in-degree.
+//  1. Cycles are broken by reversing the back edges of a depth-first search from the nodes in
+//     input order (section 2.1), so the flow from the first node (the start of cases) is kept.
 //  2. Ranks come from the network simplex method (Gansner et al. section 2.3): a feasible tree
 //     of tight edges, cut values, and exchanges of a negative-cut tree edge for the tightest
 //     non-tree edge across the cut until no cut value is negative; ranks are normalised to start

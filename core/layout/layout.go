@@ -44,7 +44,7 @@ func Layout(g Graph, opt Options) (*Result, error) {
 		}
 	}
 	L.initialOrder(seed)
-	L.order(opt.Sweeps)
+	L.order(opt.Sweeps, seed != nil)
 	xs := L.positions(opt.NodeSep)
 
 	// y: each rank as tall as its tallest node

@@ -143,21 +143,62 @@ func medianValue(ps []int) float64 {
 	return (float64(ps[m-1])*right + float64(ps[m])*left) / (left + right)
 }
 
-// order runs median sweeps with transposition and keeps the order with the fewest crossings.
-func (L *layered) order(sweeps int) {
-	best := L.crossings()
-	bestLayers := cloneLayers(L.layers)
-	for it := 0; it < sweeps && best > 0; it++ {
-		down := it%2 == 0
-		L.medianSweep(down)
-		L.transpose()
-		if c := L.crossings(); c < best {
-			best = c
-			bestLayers = cloneLayers(L.layers)
+// order runs median sweeps with transposition and keeps the order with the fewest crossings. As
+// dot does, it starts twice when there is no seed (from the breadth-first order and from a
+// depth-first one) and lets transposition swap on ties every other sweep, to leave plateaus.
+func (L *layered) order(sweeps int, seeded bool) {
+	starts := [][][]int{cloneLayers(L.layers)}
+	if !seeded {
+		starts = append(starts, L.depthFirstOrder())
+	}
+	best := -1
+	var bestLayers [][]int
+	for _, start := range starts {
+		L.layers = cloneLayers(start)
+		L.reindex()
+		if c := L.crossings(); best < 0 || c < best {
+			best, bestLayers = c, cloneLayers(L.layers)
+		}
+		for it := 0; it < sweeps && best > 0; it++ {
+			L.medianSweep(it%2 == 0)
+			L.transpose(it%4 >= 2)
+			if c := L.crossings(); c < best {
+				best, bestLayers = c, cloneLayers(L.layers)
+			}
 		}
 	}
 	L.layers = bestLayers
 	L.reindex()
+}
+
+// depthFirstOrder orders each rank by a depth-first walk from the top nodes.
+func (L *layered) depthFirstOrder() [][]int {
+	out := make([][]int, len(L.layers))
+	seen := make([]bool, L.n)
+	var visit func(v int)
+	visit = func(v int) {
+		if seen[v] {
+			return
+		}
+		seen[v] = true
+		out[L.rank[v]] = append(out[L.rank[v]], v)
+		for _, w := range L.down[v] {
+			visit(w)
+		}
+	}
+	for _, layer := range L.layers {
+		for _, v := range layer {
+			if len(L.up[v]) == 0 {
+				visit(v)
+			}
+		}
+	}
+	for _, layer := range L.layers {
+		for _, v := range layer {
+			visit(v)
+		}
+	}
+	return out
 }
 
 func cloneLayers(ls [][]int) [][]int {
@@ -227,17 +268,21 @@ func (L *layered) pairCrossings(u, v int) int {
 	return c
 }
 
-// transpose swaps neighbours while that lowers crossings (Gansner et al. 1993, figure 3-3).
-func (L *layered) transpose() {
+// transpose swaps neighbours while that lowers crossings (Gansner et al. 1993, figure 3-3); with
+// ties it also swaps pairs whose crossings stay equal (once per pair and call).
+func (L *layered) transpose(ties bool) {
 	for improved, rounds := true, 0; improved && rounds < 20; rounds++ {
 		improved = false
 		for _, layer := range L.layers {
 			for i := 0; i+1 < len(layer); i++ {
 				u, v := layer[i], layer[i+1]
-				if L.pairCrossings(v, u) < L.pairCrossings(u, v) {
+				before, after := L.pairCrossings(u, v), L.pairCrossings(v, u)
+				if after < before || (ties && rounds == 0 && after == before && after > 0) {
 					layer[i], layer[i+1] = v, u
 					L.pos[u], L.pos[v] = i+1, i
-					improved = true
+					if after < before {
+						improved = true
+					}
 				}
 			}
 		}
