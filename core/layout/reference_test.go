@@ -23,10 +23,6 @@ import (
 // same way: edge curves flattened to polylines, crossings counted between segments of different
 // edges that share no end node, lengths summed.
 
-const (
-	dotW, dotH, dotNodeSep, dotRankSep = 54, 36, 18, 36
-)
-
 func dotText(g Graph) string {
 	var b strings.Builder
 	b.WriteString("digraph G {\n node [shape=box, fixedsize=true, width=0.75, height=0.5];\n")
@@ -145,34 +141,6 @@ func measure(es []polyEdge) (crossings int, length float64) {
 	return crossings, length
 }
 
-// directlyFollowsLike makes graphs shaped like directly-follows graphs: a main flow with
-// branches, some back edges (loops) and a few long jumps.
-func directlyFollowsLike(r *rand.Rand, n int) Graph {
-	g := Graph{Width: make([]float64, n), Height: make([]float64, n)}
-	for i := range g.Width {
-		g.Width[i], g.Height[i] = dotW, dotH
-	}
-	seen := map[[2]int]bool{}
-	add := func(a, b, w int) {
-		if a != b && !seen[[2]int{a, b}] {
-			seen[[2]int{a, b}] = true
-			g.Edges = append(g.Edges, Edge{From: a, To: b, Weight: w})
-		}
-	}
-	for v := 1; v < n; v++ {
-		add(max(0, v-1-r.IntN(3)), v, 1+r.IntN(20))
-	}
-	for k := 0; k < n/2; k++ {
-		a := r.IntN(n)
-		add(a, min(n-1, a+1+r.IntN(4)), 1+r.IntN(5))
-	}
-	for k := 0; k < n/6; k++ {
-		a := r.IntN(n)
-		add(a, max(0, a-1-r.IntN(3)), 1+r.IntN(3))
-	}
-	return g
-}
-
 func ourEdges(g Graph, res *Result) []polyEdge {
 	var out []polyEdge
 	for i, e := range g.Edges {
@@ -239,21 +207,6 @@ func BenchmarkAgainstDot(b *testing.B) {
 			b.ReportMetric(float64(dc)/graphs, "dot-crossings")
 			b.ReportMetric(ol/dl, "length-ratio")
 			b.ReportMetric(float64(notWorse)/graphs, "share-not-worse")
-		})
-	}
-}
-
-// BenchmarkLayout times our engine alone (this one also runs under GOOS=js GOARCH=wasm, without
-// the reference).
-func BenchmarkLayoutNative(b *testing.B) {
-	for _, n := range []int{20, 50, 100, 200} {
-		g := directlyFollowsLike(rand.New(rand.NewPCG(uint64(n), 7)), n)
-		b.Run(fmt.Sprintf("nodes=%d", n), func(b *testing.B) {
-			for b.Loop() {
-				if _, err := Layout(g, Options{}); err != nil {
-					b.Fatal(err)
-				}
-			}
 		})
 	}
 }
