@@ -14,10 +14,13 @@
     return e;
   };
   const fmtInt = (n) => Number(n).toLocaleString('en-US');
-  const sections = ['start', 'mapping', 'progress', 'problem', 'overview'];
+  const sections = ['start', 'mapping', 'progress', 'problem', 'overview', 'flowmap', 'model'];
+  const views = ['overview', 'flowmap', 'model'];
   function show(name) {
     for (const s of sections) $(s).hidden = s !== name;
     document.body.dataset.state = name;
+    $('views').hidden = !views.includes(name);
+    for (const b of $('views').querySelectorAll('.tab')) b.setAttribute('aria-selected', String(b.dataset.view === name));
     const h = $(name).querySelector('h2');
     if (h) { h.tabIndex = -1; h.focus({ preventScroll: true }); }
   }
@@ -317,6 +320,130 @@
     s.append(svg('line', { x1: L, y1: H - B, x2: W - 8, y2: H - B, stroke: 'currentColor', 'stroke-opacity': 0.3 }));
     box.append(s);
   }
+
+  // ---- views of a loaded log ----
+  for (const b of $('views').querySelectorAll('.tab')) {
+    b.setAttribute('role', 'tab');
+    b.addEventListener('click', () => {
+      show(b.dataset.view);
+      if (b.dataset.view === 'flowmap') drawFlowMap();
+      if (b.dataset.view === 'model') drawModel();
+    });
+  }
+  $('views').setAttribute('role', 'tablist');
+
+  function placeSVG(box, text) {
+    const doc = new DOMParser().parseFromString(text, 'image/svg+xml');
+    box.replaceChildren(document.importNode(doc.documentElement, true));
+  }
+  function download(name, type, text) {
+    const a = el('a', { download: name });
+    a.href = URL.createObjectURL(new Blob([text], { type }));
+    document.body.append(a);
+    a.click();
+    a.remove();
+    setTimeout(() => URL.revokeObjectURL(a.href), 1000);
+  }
+  function savePNG(box, name) {
+    const svgEl = box.querySelector('svg');
+    if (!svgEl) return;
+    const text = new XMLSerializer().serializeToString(svgEl);
+    const url = URL.createObjectURL(new Blob([text], { type: 'image/svg+xml' }));
+    const img = new Image();
+    img.onload = () => {
+      const c = document.createElement('canvas');
+      c.width = img.width * 2; c.height = img.height * 2;
+      const g = c.getContext('2d');
+      g.fillStyle = '#ffffff'; g.fillRect(0, 0, c.width, c.height);
+      g.scale(2, 2); g.drawImage(img, 0, 0);
+      URL.revokeObjectURL(url);
+      c.toBlob((blob) => {
+        const a = el('a', { download: name });
+        a.href = URL.createObjectURL(blob);
+        document.body.append(a); a.click(); a.remove();
+      }, 'image/png');
+    };
+    img.src = url;
+  }
+
+  let flow = null;
+  let flowSeq = 0;
+  async function drawFlowMap() {
+    const seq = ++flowSeq;
+    const opts = { activities: $('fm-acts').value / 100, edges: $('fm-edges').value / 100,
+      durations: document.querySelector('input[name=fm-mode]:checked').value === 'durations' };
+    $('fm-acts-out').textContent = $('fm-acts').value + '%';
+    $('fm-edges-out').textContent = $('fm-edges').value + '%';
+    try {
+      const { done } = await call('flow_map', opts);
+      const res = await done;
+      if (seq !== flowSeq) return;
+      flow = res;
+      placeSVG($('fm-canvas'), res.svg);
+      const g = res.graph;
+      $('fm-note').textContent = (g.nodes.length - 2) + ' activities and ' + g.edges.length + ' paths shown' +
+        (g.hidden_activities ? '; ' + g.hidden_activities + ' rarer activities hidden' : '') +
+        (g.hidden_edges ? '; ' + g.hidden_edges + ' rarer paths hidden' : '') + '. Every activity shown can be reached from the start and leads to the end.';
+      $('fm-canvas').dataset.ready = 'true';
+    } catch (err) { fail(err); }
+  }
+  for (const id of ['fm-acts', 'fm-edges']) $(id).addEventListener('input', drawFlowMap);
+  for (const r of document.querySelectorAll('input[name=fm-mode]')) r.addEventListener('change', drawFlowMap);
+  function detail(rows, title) {
+    const dl = el('dl');
+    for (const [k, v] of rows) dl.append(el('dt', { text: k }), el('dd', { text: v }));
+    $('fm-detail').replaceChildren(el('h3', { text: title }), dl);
+  }
+  function showDetail(target) {
+    if (!flow) return;
+    const node = target.closest('.node');
+    const edge = target.closest('.edge');
+    const g = flow.graph;
+    if (node) {
+      const n = g.nodes[Number(node.dataset.id)];
+      detail([['done', fmtInt(n.count) + ' times'], ['in cases', fmtInt(n.cases)]], n.name);
+    } else if (edge) {
+      const from = Number(edge.dataset.from), to = Number(edge.dataset.to);
+      const e = g.edges.find((x) => x.from === from && x.to === to);
+      if (!e) return;
+      const d = e.duration_seconds;
+      const rows = [['taken', fmtInt(e.count) + ' times'], ['in cases', fmtInt(e.cases)]];
+      if (d.n) rows.push(['median wait', duration(d.median)], ['mean wait', duration(d.mean)], ['90% within', duration(d.p90)], ['longest', duration(d.max)]);
+      detail(rows, g.nodes[from].name + ' → ' + g.nodes[to].name);
+    }
+  }
+  $('fm-canvas').addEventListener('click', (e) => showDetail(e.target));
+  $('fm-canvas').addEventListener('keydown', (e) => { if (e.key === 'Enter') showDetail(e.target); });
+  $('fm-svg').addEventListener('click', () => { if (flow) download('flow-map.svg', 'image/svg+xml', flow.svg); });
+  $('fm-png').addEventListener('click', () => savePNG($('fm-canvas'), 'flow-map.png'));
+
+  let model = null;
+  let modelSeq = 0;
+  async function drawModel() {
+    const seq = ++modelSeq;
+    const method = $('md-method').value;
+    $('md-noise').disabled = method !== 'im';
+    $('md-noise-out').textContent = $('md-noise').value + '%';
+    $('md-summary').textContent = 'Finding the model…';
+    try {
+      const { done } = await call('model', { method, noise: method === 'im' ? $('md-noise').value / 100 : 0 });
+      const res = await done;
+      if (seq !== modelSeq) return;
+      model = res;
+      placeSVG($('md-canvas'), res.svg);
+      $('md-summary').textContent = res.places + ' places, ' + res.transitions + ' transitions; ' +
+        (res.sound ? 'sound: every run can finish properly.' : 'not sound: some runs cannot finish properly.') + (res.tree ? ' As a process tree: ' + res.tree : '');
+      $('md-note').hidden = !res.note;
+      $('md-note').textContent = res.note || '';
+      $('md-canvas').dataset.ready = 'true';
+    } catch (err) { fail(err); }
+  }
+  $('md-method').addEventListener('change', drawModel);
+  $('md-noise').addEventListener('change', drawModel);
+  $('md-noise').addEventListener('input', () => { $('md-noise-out').textContent = $('md-noise').value + '%'; });
+  $('md-pnml').addEventListener('click', () => { if (model) download('model.pnml', 'application/xml', model.pnml); });
+  $('md-dot').addEventListener('click', () => { if (model) download('model.dot', 'text/vnd.graphviz', model.dot); });
+  $('md-svg').addEventListener('click', () => { if (model) download('model.svg', 'image/svg+xml', model.svg); });
 
   startEngine();
 })();

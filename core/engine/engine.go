@@ -18,8 +18,13 @@ import (
 	"strings"
 	"sync"
 
+	"tracewright/core/dfg"
+	"tracewright/core/discovery"
 	"tracewright/core/eventlog"
 	"tracewright/core/intake"
+	"tracewright/core/layout"
+	"tracewright/core/petri"
+	"tracewright/core/render"
 	"tracewright/core/overview"
 	"tracewright/core/timestamp"
 )
@@ -71,6 +76,7 @@ type File struct {
 // arrive while a load runs.
 type Engine struct {
 	mu      sync.Mutex
+	prevMap *layout.Result // the last flow map's layout, so that nodes keep their places
 	log     *eventlog.Log
 	report  *intake.Report
 	name    string
@@ -109,6 +115,10 @@ func (e *Engine) Handle(ctx context.Context, req Request, file *File, emit func(
 		payload, err = e.overview(req.Payload)
 	case "parse_time":
 		payload, err = parseTimes(req.Payload)
+	case "flow_map":
+		payload, err = e.flowMap(req.Payload)
+	case "model":
+		payload, err = e.model(req.Payload)
 	case "cancel":
 		payload, err = e.cancel(req.Payload)
 	default:
@@ -255,7 +265,7 @@ func (e *Engine) load(ctx context.Context, req Request, f *File, emit func(Respo
 		return nil, err
 	}
 	e.mu.Lock()
-	e.log, e.report, e.name = l, rep, f.Name
+	e.log, e.report, e.name, e.prevMap = l, rep, f.Name, nil
 	e.mu.Unlock()
 	if rep.CSV != nil {
 		rep.CSV.Preview = nil // the page has it from sniff; keep the message small
@@ -347,4 +357,132 @@ func parseTimes(raw json.RawMessage) ([]TimeCheck, error) {
 		out = append(out, c)
 	}
 	return out, nil
+}
+
+func (e *Engine) loaded() (*eventlog.Log, error) {
+	e.mu.Lock()
+	defer e.mu.Unlock()
+	if e.log == nil {
+		return nil, errors.New("no log is loaded")
+	}
+	return e.log, nil
+}
+
+// FlowMapOptions are the flow map's controls: the shares of activities and paths shown, and
+// whether colours show how often or how long.
+type FlowMapOptions struct {
+	Activities float64 `json:"activities"`
+	Edges      float64 `json:"edges"`
+	Durations  bool    `json:"durations"`
+	LeftRight  bool    `json:"left_right"`
+}
+
+// FlowMap is a drawn directly-follows graph with its numbers, for details on click.
+type FlowMap struct {
+	SVG   string     `json:"svg"`
+	Graph *dfg.Graph `json:"graph"`
+}
+
+func (e *Engine) flowMap(raw json.RawMessage) (*FlowMap, error) {
+	var o FlowMapOptions
+	if len(raw) > 0 {
+		if err := json.Unmarshal(raw, &o); err != nil {
+			return nil, fmt.Errorf("flow_map options: %w", err)
+		}
+	}
+	l, err := e.loaded()
+	if err != nil {
+		return nil, err
+	}
+	g := dfg.Build(l, dfg.Options{Activities: o.Activities, Edges: o.Edges})
+	opt := render.DFGOptions{Mode: render.Counts}
+	if o.Durations {
+		opt.Mode = render.Durations
+	}
+	if o.LeftRight {
+		opt.Direction = layout.LeftRight
+	}
+	e.mu.Lock()
+	opt.Previous = e.prevMap
+	e.mu.Unlock()
+	svg, res, err := render.DFG(g, opt)
+	if err != nil {
+		return nil, err
+	}
+	e.mu.Lock()
+	e.prevMap = res
+	e.mu.Unlock()
+	return &FlowMap{SVG: svg, Graph: g}, nil
+}
+
+// ModelOptions choose the discovery method.
+type ModelOptions struct {
+	Method string  `json:"method"` // "im" (default), "imd" or "alpha"
+	Noise  float64 `json:"noise"`
+}
+
+// Model is a discovered model: the Petri net drawn, its exports, and what is known of it.
+type Model struct {
+	Method      string `json:"method"`
+	Tree        string `json:"tree,omitempty"`
+	SVG         string `json:"svg"`
+	PNML        string `json:"pnml"`
+	DOT         string `json:"dot"`
+	Places      int    `json:"places"`
+	Transitions int    `json:"transitions"`
+	Sound       bool   `json:"sound"`
+	Note        string `json:"note,omitempty"`
+}
+
+func (e *Engine) model(raw json.RawMessage) (*Model, error) {
+	var o ModelOptions
+	if len(raw) > 0 {
+		if err := json.Unmarshal(raw, &o); err != nil {
+			return nil, fmt.Errorf("model options: %w", err)
+		}
+	}
+	if o.Noise < 0 || o.Noise > 1 {
+		return nil, fmt.Errorf("the noise threshold is a share between 0 and 1, not %v", o.Noise)
+	}
+	l, err := e.loaded()
+	if err != nil {
+		return nil, err
+	}
+	dl := discovery.FromEventLog(l)
+	m := &Model{Method: o.Method}
+	var net *petri.Net
+	switch o.Method {
+	case "", "im":
+		t := discovery.InductiveMiner(dl, discovery.Options{Noise: o.Noise})
+		m.Method, m.Tree, net = "im", t.String(), petri.FromTree(t)
+	case "imd":
+		t := discovery.InductiveMinerGraph(dl)
+		m.Tree, net = t.String(), petri.FromTree(t)
+	case "alpha":
+		a, err := discovery.Alpha(dl)
+		if err != nil {
+			return nil, err
+		}
+		net = a.PetriNet()
+		m.Note = "The alpha algorithm finds no loops of one or two steps and no silent steps, and has no notion of noise; its nets are often not sound."
+	default:
+		return nil, fmt.Errorf("unknown method %q (im, imd or alpha)", o.Method)
+	}
+	net.Name = "model"
+	m.Places, m.Transitions = len(net.Places), len(net.Transitions)
+	m.Sound = net.Sound(200000) == nil
+	var b strings.Builder
+	if err := petri.WritePNML(&b, net); err != nil {
+		return nil, err
+	}
+	m.PNML = b.String()
+	b.Reset()
+	if err := petri.WriteDOT(&b, net); err != nil {
+		return nil, err
+	}
+	m.DOT = b.String()
+	if m.SVG, _, err = render.PetriNet(net); err != nil {
+		return nil, err
+	}
+	return m, nil
 }

@@ -163,3 +163,23 @@ func TestParseTime(t *testing.T) {
 	r = New().Handle(context.Background(), req("parse_time", 10, `{"layout":"hh:mm","values":["x"]}`), nil, nil)
 	assert.Equal(t, "error", r.Kind)
 }
+
+func TestFlowMapAndModel(t *testing.T) {
+	data, err := os.ReadFile("../../testdata/workshop.csv")
+	require.NoError(t, err)
+	e := New()
+	require.Equal(t, "result", e.Handle(context.Background(), req("load", 1, ""), fileOf("w.csv", string(data)), nil).Kind)
+	r := e.Handle(context.Background(), req("flow_map", 2, `{"activities":0.9,"edges":0.6,"durations":true}`), nil, nil)
+	require.Equal(t, "result", r.Kind, "%v", r.Payload)
+	fm := r.Payload.(*FlowMap)
+	assert.Contains(t, fm.SVG, "<svg")
+	assert.Positive(t, fm.Graph.HiddenEdges)
+	r = e.Handle(context.Background(), req("model", 3, `{"method":"im","noise":0.2}`), nil, nil)
+	require.Equal(t, "result", r.Kind, "%v", r.Payload)
+	m := r.Payload.(*Model)
+	assert.True(t, m.Sound)
+	assert.Contains(t, m.PNML, "<pnml")
+	assert.Contains(t, m.Tree, "Register claim")
+	r = e.Handle(context.Background(), req("model", 4, `{"method":"nope"}`), nil, nil)
+	assert.Equal(t, "error", r.Kind)
+}

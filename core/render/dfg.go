@@ -56,7 +56,7 @@ func DFG(g *dfg.Graph, opt DFGOptions) (string, *layout.Result, error) {
 	if opt.Mode == Durations {
 		title = "Directly-follows graph, by median time between activities"
 	}
-	s.open(res.Width, res.Height, title)
+	s.open("dfg", res.Width, res.Height, title)
 	for i, e := range g.Edges {
 		width := 1 + 6*math.Sqrt(float64(e.Count)/float64(maxEdge))
 		color := "#8a949a"

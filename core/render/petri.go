@@ -35,7 +35,7 @@ func PetriNet(n *petri.Net) (string, *layout.Result, error) {
 		return "", nil, err
 	}
 	var s svg
-	s.open(res.Width, res.Height, "Petri net "+n.Name)
+	s.open("net", res.Width, res.Height, "Petri net "+n.Name)
 	for i := range lg.Edges {
 		s.path(res.Paths[i], 1.2, "#5c666d", "")
 	}

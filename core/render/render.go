@@ -55,16 +55,18 @@ func textWidth(s string) float64 { return float64(utf8.RuneCountInString(s))*7 +
 
 // svg collects SVG elements.
 type svg struct {
-	b strings.Builder
+	b      strings.Builder
+	marker string // the arrowhead's id: distinct per kind of drawing, since a page shows several
 }
 
 func (s *svg) f(format string, args ...any) { fmt.Fprintf(&s.b, format, args...) }
 
-func (s *svg) open(w, h float64, title string) {
+func (s *svg) open(kind string, w, h float64, title string) {
+	s.marker = "tw-arrow-" + kind
 	s.f(`<svg xmlns="http://www.w3.org/2000/svg" viewBox="-20 -20 %.1f %.1f" width="%.0f" height="%.0f" role="img" font-family="system-ui, sans-serif" font-size="12">`,
 		w+40, h+40, w+40, h+40)
 	s.f(`<title>%s</title>`, esc(title))
-	s.f(`<defs><marker id="tw-arrow" viewBox="0 0 10 10" refX="9" refY="5" markerWidth="9" markerHeight="9" markerUnits="userSpaceOnUse" orient="auto-start-reverse"><path d="M0,0 L10,5 L0,10 z" fill="#5c666d"/></marker></defs>`)
+	s.f(`<defs><marker id="%s" viewBox="0 0 10 10" refX="9" refY="5" markerWidth="9" markerHeight="9" markerUnits="userSpaceOnUse" orient="auto-start-reverse"><path d="M0,0 L10,5 L0,10 z" fill="#5c666d"/></marker></defs>`, s.marker)
 }
 
 func (s *svg) path(p []layout.Point, width float64, color string, attrs string) {
@@ -76,7 +78,7 @@ func (s *svg) path(p []layout.Point, width float64, color string, attrs string) 
 	for i := 1; i+2 < len(p); i += 3 {
 		fmt.Fprintf(&d, " C%.1f,%.1f %.1f,%.1f %.1f,%.1f", p[i].X, p[i].Y, p[i+1].X, p[i+1].Y, p[i+2].X, p[i+2].Y)
 	}
-	s.f(`<path d="%s" fill="none" stroke="%s" stroke-width="%.2f" marker-end="url(#tw-arrow)"%s/>`, d.String(), color, width, attrs)
+	s.f(`<path d="%s" fill="none" stroke="%s" stroke-width="%.2f" marker-end="url(#%s)"%s/>`, d.String(), color, width, s.marker, attrs)
 }
 
 func (s *svg) String() string { return s.b.String() + "</svg>" }

@@ -40,7 +40,7 @@ func ProcessTree(root *tree.Node) (string, *layout.Result, error) {
 		return "", nil, err
 	}
 	var s svg
-	s.open(res.Width, res.Height, "Process tree "+root.String())
+	s.open("tree", res.Width, res.Height, "Process tree "+root.String())
 	for i := range lg.Edges {
 		p := res.Paths[i]
 		if len(p) > 0 {

@@ -370,3 +370,47 @@ func TestProgressAndCancel(t *testing.T) {
 	assert.Equal(t, "mapping", state)
 	assert.Empty(t, rl.failures)
 }
+
+// TestViews opens the demo log's flow map and model, moves a control, opens a detail, and
+// saves screenshots; nothing may leave the page.
+func TestViews(t *testing.T) {
+	html := builtPage(t)
+	ctx, rl := browser(t)
+	require.NoError(t, chromedp.Do(ctx,
+		chromedp.Navigate("file://"+html),
+		chromedp.WaitVisible(chromedp.CSS(`body[data-engine="ready"]`)),
+		chromedp.Click(chromedp.CSS(`#demo-button`)),
+		chromedp.WaitVisible(chromedp.CSS(`#mapping`)),
+		chromedp.Click(chromedp.CSS(`#read-button`)),
+		chromedp.WaitVisible(chromedp.CSS(`#overview[data-ready="true"]`)),
+		chromedp.Click(chromedp.CSS(`#views [data-view="flowmap"]`)),
+		chromedp.WaitVisible(chromedp.CSS(`#fm-canvas[data-ready="true"] svg`)),
+		chromedp.Click(chromedp.CSS(`#fm-canvas .node[data-id="2"] rect`)),
+		chromedp.WaitVisible(chromedp.CSS(`#fm-detail dl`)),
+	))
+	shot(t, ctx, "flowmap")
+	note, err := chromedp.Run(ctx, chromedp.Text(chromedp.CSS(`#fm-note`)))
+	require.NoError(t, err)
+	assert.Contains(t, note, "12 activities")
+	// fewer paths: the note must say some are hidden
+	_, err = chromedp.Run(ctx, chromedp.Evaluate[chromedp.Void](`(() => { const s = document.getElementById('fm-edges'); s.value = 20; s.dispatchEvent(new Event('input')); })()`))
+	require.NoError(t, err)
+	for i := 0; i < 100; i++ {
+		note, _ = chromedp.Run(ctx, chromedp.Text(chromedp.CSS(`#fm-note`)))
+		if strings.Contains(note, "hidden") {
+			break
+		}
+		time.Sleep(50 * time.Millisecond)
+	}
+	assert.Contains(t, note, "rarer paths hidden")
+	require.NoError(t, chromedp.Do(ctx,
+		chromedp.Click(chromedp.CSS(`#views [data-view="model"]`)),
+		chromedp.WaitVisible(chromedp.CSS(`#md-canvas[data-ready="true"] svg`)),
+	))
+	summary, err := chromedp.Run(ctx, chromedp.Text(chromedp.CSS(`#md-summary`)))
+	require.NoError(t, err)
+	assert.Contains(t, summary, "sound")
+	shot(t, ctx, "model")
+	assert.Empty(t, rl.outgoing("file://"+html))
+	assert.Empty(t, rl.failures)
+}

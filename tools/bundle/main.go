@@ -7,7 +7,8 @@
 //
 // It computes the Content-Security-Policy from the inlined script and style (sha256 hashes, no
 // 'unsafe-inline'): default-src 'none'; the page's one script and WebAssembly compilation;
-// its one style; workers from blob: only; no forms, no base URL. Nothing may be fetched.
+// its one style; workers and images from blob: only (local objects the page makes itself); no
+// forms, no base URL. Nothing may be fetched from anywhere.
 package main
 
 import (
@@ -133,6 +134,7 @@ func run(root, out, demoPath string, budget int) (string, int, error) {
 		"script-src '" + hash(minApp) + "' 'wasm-unsafe-eval'",
 		"style-src '" + hash(minStyle) + "'",
 		"worker-src blob:",
+		"img-src blob:", // a drawing saved as PNG passes through an image of a local Blob
 		"form-action 'none'",
 		"base-uri 'none'",
 	}, "; ")
