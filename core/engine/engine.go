@@ -23,9 +23,9 @@ import (
 	"tracewright/core/eventlog"
 	"tracewright/core/intake"
 	"tracewright/core/layout"
+	"tracewright/core/overview"
 	"tracewright/core/petri"
 	"tracewright/core/render"
-	"tracewright/core/overview"
 	"tracewright/core/timestamp"
 )
 
