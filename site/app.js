@@ -433,6 +433,7 @@
       placeSVG($('md-canvas'), res.svg);
       $('md-summary').textContent = res.places + ' places, ' + res.transitions + ' transitions; ' +
         (res.sound ? 'sound: every run can finish properly.' : 'not sound: some runs cannot finish properly.') + (res.tree ? ' As a process tree: ' + res.tree : '');
+      $('md-bpmn').disabled = !res.bpmn;
       $('md-note').hidden = !res.note;
       $('md-note').textContent = res.note || '';
       $('md-canvas').dataset.ready = 'true';
@@ -444,6 +445,7 @@
   $('md-pnml').addEventListener('click', () => { if (model) download('model.pnml', 'application/xml', model.pnml); });
   $('md-dot').addEventListener('click', () => { if (model) download('model.dot', 'text/vnd.graphviz', model.dot); });
   $('md-svg').addEventListener('click', () => { if (model) download('model.svg', 'image/svg+xml', model.svg); });
+  $('md-bpmn').addEventListener('click', () => { if (model && model.bpmn) download('model.bpmn', 'application/xml', model.bpmn); });
 
   startEngine();
 })();

@@ -18,6 +18,7 @@ import (
 	"strings"
 	"sync"
 
+	"tracewright/core/bpmn"
 	"tracewright/core/dfg"
 	"tracewright/core/discovery"
 	"tracewright/core/eventlog"
@@ -27,6 +28,7 @@ import (
 	"tracewright/core/petri"
 	"tracewright/core/render"
 	"tracewright/core/timestamp"
+	"tracewright/core/tree"
 )
 
 // Version is the version of Tracewright, shown on the page and by the command-line tool.
@@ -428,6 +430,7 @@ type Model struct {
 	SVG         string `json:"svg"`
 	PNML        string `json:"pnml"`
 	DOT         string `json:"dot"`
+	BPMN        string `json:"bpmn,omitempty"` // for process trees (not for alpha's nets)
 	Places      int    `json:"places"`
 	Transitions int    `json:"transitions"`
 	Sound       bool   `json:"sound"`
@@ -451,13 +454,13 @@ func (e *Engine) model(raw json.RawMessage) (*Model, error) {
 	dl := discovery.FromEventLog(l)
 	m := &Model{Method: o.Method}
 	var net *petri.Net
+	var t *tree.Node
 	switch o.Method {
 	case "", "im":
-		t := discovery.InductiveMiner(dl, discovery.Options{Noise: o.Noise})
-		m.Method, m.Tree, net = "im", t.String(), petri.FromTree(t)
+		t = discovery.InductiveMiner(dl, discovery.Options{Noise: o.Noise})
+		m.Method = "im"
 	case "imd":
-		t := discovery.InductiveMinerGraph(dl)
-		m.Tree, net = t.String(), petri.FromTree(t)
+		t = discovery.InductiveMinerGraph(dl)
 	case "alpha":
 		a, err := discovery.Alpha(dl)
 		if err != nil {
@@ -468,10 +471,18 @@ func (e *Engine) model(raw json.RawMessage) (*Model, error) {
 	default:
 		return nil, fmt.Errorf("unknown method %q (im, imd or alpha)", o.Method)
 	}
+	var b strings.Builder
+	if t != nil {
+		m.Tree, net = t.String(), petri.FromTree(t)
+		if err := bpmn.Write(&b, bpmn.FromTree(t), "model"); err != nil {
+			return nil, err
+		}
+		m.BPMN = b.String()
+		b.Reset()
+	}
 	net.Name = "model"
 	m.Places, m.Transitions = len(net.Places), len(net.Transitions)
 	m.Sound = net.Sound(200000) == nil
-	var b strings.Builder
 	if err := petri.WritePNML(&b, net); err != nil {
 		return nil, err
 	}

@@ -179,6 +179,7 @@ func TestFlowMapAndModel(t *testing.T) {
 	m := r.Payload.(*Model)
 	assert.True(t, m.Sound)
 	assert.Contains(t, m.PNML, "<pnml")
+	assert.Contains(t, m.BPMN, "<definitions")
 	assert.Contains(t, m.Tree, "Register claim")
 	r = e.Handle(context.Background(), req("model", 4, `{"method":"nope"}`), nil, nil)
 	assert.Equal(t, "error", r.Kind)

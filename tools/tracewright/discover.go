@@ -9,9 +9,11 @@ import (
 	"path/filepath"
 	"strings"
 
+	"tracewright/core/bpmn"
 	"tracewright/core/dfg"
 	"tracewright/core/discovery"
 	"tracewright/core/petri"
+	"tracewright/core/tree"
 )
 
 // dfgCommand prints the directly-follows graph as JSON.
@@ -55,6 +57,7 @@ func discoverCommand(ctx context.Context, args []string, stdout io.Writer) error
 	noise := fs.Float64("noise", 0, "IMf noise threshold, 0 to 1 (0: the base algorithm)")
 	out := fs.String("out", "", "write the Petri net as PNML here")
 	dot := fs.String("dot", "", "write the Petri net as Graphviz DOT here")
+	bpmnOut := fs.String("bpmn", "", "write the process tree as BPMN 2.0 here (im and imd)")
 	force := fs.Bool("force", false, "replace existing output files")
 	asJSON := fs.Bool("json", false, "print JSON")
 	path, err := parse(fs, args)
@@ -64,7 +67,7 @@ func discoverCommand(ctx context.Context, args []string, stdout io.Writer) error
 	if *noise < 0 || *noise > 1 {
 		return &usageError{"--noise is a share between 0 and 1"}
 	}
-	for _, o := range []string{*out, *dot} {
+	for _, o := range []string{*out, *dot, *bpmnOut} {
 		if o != "" {
 			if err := checkOutput(path, o, *force); err != nil {
 				return err
@@ -78,12 +81,13 @@ func discoverCommand(ctx context.Context, args []string, stdout io.Writer) error
 	dl := discovery.FromEventLog(l)
 	res := discoverOutput{Method: strings.ToLower(*method), Noise: *noise, Out: *out}
 	var net *petri.Net
+	var t *tree.Node
 	switch res.Method {
 	case "im":
-		t := discovery.InductiveMiner(dl, discovery.Options{Noise: *noise})
+		t = discovery.InductiveMiner(dl, discovery.Options{Noise: *noise})
 		res.Tree, net = t.String(), petri.FromTree(t)
 	case "imd":
-		t := discovery.InductiveMinerGraph(dl)
+		t = discovery.InductiveMinerGraph(dl)
 		res.Tree, net = t.String(), petri.FromTree(t)
 	case "alpha":
 		a, err := discovery.Alpha(dl)
@@ -104,6 +108,14 @@ func discoverCommand(ctx context.Context, args []string, stdout io.Writer) error
 	res.Sound = net.Sound(200000) == nil
 	if *out != "" {
 		if err := writeFile(*out, func(w io.Writer) error { return petri.WritePNML(w, net) }); err != nil {
+			return err
+		}
+	}
+	if *bpmnOut != "" {
+		if t == nil {
+			return &usageError{"--bpmn needs a process tree: use --method im or imd"}
+		}
+		if err := writeFile(*bpmnOut, func(w io.Writer) error { return bpmn.Write(w, bpmn.FromTree(t), filepath.Base(path)) }); err != nil {
 			return err
 		}
 	}

@@ -65,7 +65,7 @@ const usage = `usage:
   tracewright columns LOG [--json] [reading flags]
   tracewright convert LOG --to xes|csv [--out FILE] [--force] [reading flags]
   tracewright dfg LOG [--activities SHARE] [--edges SHARE] [reading flags]
-  tracewright discover LOG [--method im|imd|alpha] [--noise F] [--out NET.pnml] [--dot NET.dot] [--json]
+  tracewright discover LOG [--method im|imd|alpha] [--noise F] [--out NET.pnml] [--dot NET.dot] [--bpmn MODEL.bpmn] [--json]
   tracewright version
 
 reading flags:
