@@ -71,6 +71,12 @@ func Layout(g Graph, opt Options) (*Result, error) {
 		res.X[v], res.Y[v] = p.X, p.Y
 	}
 	res.Paths = make([][]Point, len(g.Edges))
+	opposite := map[[2]int]bool{}
+	for i, e := range g.Edges {
+		if len(L.chains[i]) == 2 {
+			opposite[[2]int{e.From, e.To}] = true
+		}
+	}
 	for i, e := range g.Edges {
 		if e.From == e.To {
 			c := at(e.From)
@@ -92,6 +98,16 @@ func Layout(g Graph, opt Options) (*Result, error) {
 		}
 		if L.flip[i] {
 			slices.Reverse(pts)
+		}
+		// an edge and its opposite between neighbouring ranks would share one line: set them apart
+		if len(chain) == 2 && opposite[[2]int{e.To, e.From}] {
+			d := 7.0
+			if e.From > e.To {
+				d = -d
+			}
+			for k := range pts {
+				pts[k].X += d
+			}
 		}
 		res.Paths[i] = smooth(pts)
 	}
