@@ -394,6 +394,16 @@
     for (const [k, v] of rows) dl.append(el('dt', { text: k }), el('dd', { text: v }));
     $('fm-detail').replaceChildren(el('h3', { text: title }), dl);
   }
+  async function caseList(query, heading) {
+    try {
+      const { done } = await call('flow_detail', Object.assign({ activities: $('fm-acts').value / 100 }, query));
+      const cases = await done;
+      if (!cases.length) return;
+      const list = el('ol', { class: 'small' });
+      for (const c of cases) list.append(el('li', { text: c.case + (c.seconds ? ' (' + duration(c.seconds) + ')' : '') }));
+      $('fm-detail').append(el('p', { class: 'small muted', text: heading }), list);
+    } catch (err) { /* the figures above stand on their own */ }
+  }
   function showDetail(target) {
     if (!flow) return;
     const node = target.closest('.node');
@@ -402,6 +412,7 @@
     if (node) {
       const n = g.nodes[Number(node.dataset.id)];
       detail([['done', fmtInt(n.count) + ' times'], ['in cases', fmtInt(n.cases)]], n.name);
+      if (n.activity >= 0) caseList({ node: n.activity }, 'Cases where it took longest:');
     } else if (edge) {
       const from = Number(edge.dataset.from), to = Number(edge.dataset.to);
       const e = g.edges.find((x) => x.from === from && x.to === to);
@@ -410,6 +421,7 @@
       const rows = [['taken', fmtInt(e.count) + ' times'], ['in cases', fmtInt(e.cases)]];
       if (d.n) rows.push(['median wait', duration(d.median)], ['mean wait', duration(d.mean)], ['90% within', duration(d.p90)], ['longest', duration(d.max)]);
       detail(rows, g.nodes[from].name + ' → ' + g.nodes[to].name);
+      caseList({ from: g.nodes[from].activity, to: g.nodes[to].activity }, 'Cases that waited longest here:');
     }
   }
   $('fm-canvas').addEventListener('click', (e) => showDetail(e.target));
@@ -430,7 +442,7 @@
       const res = await done;
       if (seq !== modelSeq) return;
       model = res;
-      placeSVG($('md-canvas'), res.svg);
+      placeModel();
       $('md-summary').textContent = res.places + ' places, ' + res.transitions + ' transitions; ' +
         (res.sound ? 'sound: every run can finish properly.' : 'not sound: some runs cannot finish properly.') + (res.tree ? ' As a process tree: ' + res.tree : '');
       $('md-bpmn').disabled = !res.bpmn;
@@ -439,6 +451,12 @@
       $('md-canvas').dataset.ready = 'true';
     } catch (err) { fail(err); }
   }
+  function placeModel() {
+    if (!model) return;
+    const asTree = document.querySelector('input[name=md-draw]:checked').value === 'tree' && model.tree_svg;
+    placeSVG($('md-canvas'), asTree ? model.tree_svg : model.svg);
+  }
+  for (const r of document.querySelectorAll('input[name=md-draw]')) r.addEventListener('change', placeModel);
   $('md-method').addEventListener('change', drawModel);
   $('md-noise').addEventListener('change', drawModel);
   $('md-noise').addEventListener('input', () => { $('md-noise-out').textContent = $('md-noise').value + '%'; });

@@ -92,3 +92,21 @@ func TestAbstractionKeepsPaths(t *testing.T) {
 	assert.Less(t, len(few.Edges), len(full.Edges))
 	assert.Positive(t, few.HiddenEdges)
 }
+
+func TestTopCases(t *testing.T) {
+	l := read(t, `case,activity,time
+1,a,2024-01-01T00:00:00Z
+1,b,2024-01-01T01:00:00Z
+2,a,2024-01-02T00:00:00Z
+2,b,2024-01-02T03:00:00Z
+3,a,2024-01-03T00:00:00Z
+3,c,2024-01-03T00:10:00Z
+`)
+	a, _ := l.Activities.Lookup("a")
+	b, _ := l.Activities.Lookup("b")
+	got := TopCases(l, Options{}, a, b, 5)
+	// waits a→b: 3 h in case 2, 1 h in case 1; case 3 never goes a→b
+	assert.Equal(t, []CaseRef{{"2", 10800}, {"1", 3600}}, got)
+	assert.Len(t, TopCases(l, Options{}, -1, a, 5), 3, "all three cases start with a")
+	assert.Len(t, TopCases(l, Options{}, a, -3, 1), 1, "k caps the list")
+}

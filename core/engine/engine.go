@@ -121,6 +121,8 @@ func (e *Engine) Handle(ctx context.Context, req Request, file *File, emit func(
 		payload, err = e.flowMap(req.Payload)
 	case "model":
 		payload, err = e.model(req.Payload)
+	case "flow_detail":
+		payload, err = e.flowDetail(req.Payload)
 	case "cancel":
 		payload, err = e.cancel(req.Payload)
 	default:
@@ -431,6 +433,7 @@ type Model struct {
 	PNML        string `json:"pnml"`
 	DOT         string `json:"dot"`
 	BPMN        string `json:"bpmn,omitempty"` // for process trees (not for alpha's nets)
+	TreeSVG     string `json:"tree_svg,omitempty"`
 	Places      int    `json:"places"`
 	Transitions int    `json:"transitions"`
 	Sound       bool   `json:"sound"`
@@ -479,6 +482,9 @@ func (e *Engine) model(raw json.RawMessage) (*Model, error) {
 		}
 		m.BPMN = b.String()
 		b.Reset()
+		if m.TreeSVG, _, err = render.ProcessTree(t); err != nil {
+			return nil, err
+		}
 	}
 	net.Name = "model"
 	m.Places, m.Transitions = len(net.Places), len(net.Transitions)
@@ -496,4 +502,30 @@ func (e *Engine) model(raw json.RawMessage) (*Model, error) {
 		return nil, err
 	}
 	return m, nil
+}
+
+// flowDetail lists the cases behind a flow map node ({activities, node}) or path ({activities,
+// from, to}); activity ids as in the graph's nodes (-1 start, -2 end).
+func (e *Engine) flowDetail(raw json.RawMessage) ([]dfg.CaseRef, error) {
+	var p struct {
+		Activities float64 `json:"activities"`
+		Node       *int32  `json:"node"`
+		From       int32   `json:"from"`
+		To         int32   `json:"to"`
+	}
+	if err := json.Unmarshal(raw, &p); err != nil {
+		return nil, fmt.Errorf("flow_detail: %w", err)
+	}
+	l, err := e.loaded()
+	if err != nil {
+		return nil, err
+	}
+	from, to := p.From, p.To
+	if p.Node != nil {
+		from, to = *p.Node, -3
+	}
+	if from >= int32(l.Activities.Len()) || to >= int32(l.Activities.Len()) || from < -2 {
+		return nil, fmt.Errorf("flow_detail: no such activity")
+	}
+	return dfg.TopCases(l, dfg.Options{Activities: p.Activities}, from, to, 5), nil
 }

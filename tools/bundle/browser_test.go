@@ -387,6 +387,7 @@ func TestViews(t *testing.T) {
 		chromedp.WaitVisible(chromedp.CSS(`#fm-canvas[data-ready="true"] svg`)),
 		chromedp.Click(chromedp.CSS(`#fm-canvas .node[data-id="2"] rect`)),
 		chromedp.WaitVisible(chromedp.CSS(`#fm-detail dl`)),
+		chromedp.WaitVisible(chromedp.CSS(`#fm-detail ol li`)),
 	))
 	shot(t, ctx, "flowmap")
 	note, err := chromedp.Run(ctx, chromedp.Text(chromedp.CSS(`#fm-note`)))
@@ -411,6 +412,11 @@ func TestViews(t *testing.T) {
 	require.NoError(t, err)
 	assert.Contains(t, summary, "sound")
 	shot(t, ctx, "model")
+	require.NoError(t, chromedp.Do(ctx,
+		chromedp.Click(chromedp.CSS(`input[name="md-draw"][value="tree"]`)),
+		chromedp.WaitVisible(chromedp.CSS(`#md-canvas .operator`)),
+	))
+	shot(t, ctx, "model-tree")
 	assert.Empty(t, rl.outgoing("file://"+html))
 	assert.Empty(t, rl.failures)
 }
