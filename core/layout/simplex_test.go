@@ -1,0 +1,70 @@
+package layout
+
+import (
+	"math/rand/v2"
+	"testing"
+
+	"github.com/stretchr/testify/require"
+	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/optimize/convex/lp"
+)
+
+// TestRanksAreOptimal compares network simplex with gonum's simplex LP solver on the ranking
+// problem of Gansner et al. (1993, section 2): minimise Σ w(u,v)·(r(v) − r(u)) subject to
+// r(v) − r(u) ≥ 1. Its constraint matrix is totally unimodular, so the LP optimum is the integer
+// optimum and the two totals must agree.
+func TestRanksAreOptimal(t *testing.T) {
+	r := rand.New(rand.NewPCG(8, 8))
+	for trial := 0; trial < 40; trial++ {
+		n := 3 + r.IntN(12)
+		seen := map[[2]int]bool{}
+		var dag []dagEdge
+		for v := 1; v < n; v++ { // connected: each node gets an edge from an earlier one
+			u := r.IntN(v)
+			seen[[2]int{u, v}] = true
+			dag = append(dag, dagEdge{u, v, 1 + r.IntN(9)})
+		}
+		for k := 0; k < n; k++ {
+			u, v := r.IntN(n), r.IntN(n)
+			if u < v && !seen[[2]int{u, v}] {
+				seen[[2]int{u, v}] = true
+				dag = append(dag, dagEdge{u, v, 1 + r.IntN(9)})
+			}
+		}
+		rank := rankNodes(n, dag)
+		ours := 0.0
+		for _, e := range dag {
+			require.GreaterOrEqual(t, rank[e.to]-rank[e.from], 1, "feasible")
+			ours += float64(e.weight * (rank[e.to] - rank[e.from]))
+		}
+		require.InDelta(t, lpOptimum(n, dag), ours, 1e-6, "trial %d: %d nodes, %d edges", trial, n, len(dag))
+	}
+}
+
+// lpOptimum solves the ranking LP in standard form: ranks r = p − q with p, q ≥ 0, one slack
+// s ≥ 0 per edge: r(v) − r(u) − s = 1.
+func lpOptimum(n int, dag []dagEdge) float64 {
+	m := len(dag)
+	cols := 2*n + m
+	c := make([]float64, cols)
+	A := mat.NewDense(m, cols, nil)
+	b := make([]float64, m)
+	for i, e := range dag {
+		w := float64(e.weight)
+		c[e.to] += w
+		c[n+e.to] -= w
+		c[e.from] -= w
+		c[n+e.from] += w
+		A.Set(i, e.to, 1)
+		A.Set(i, n+e.to, -1)
+		A.Set(i, e.from, -1)
+		A.Set(i, n+e.from, 1)
+		A.Set(i, 2*n+i, -1)
+		b[i] = 1
+	}
+	opt, _, err := lp.Simplex(c, A, b, 1e-10, nil)
+	if err != nil {
+		panic(err)
+	}
+	return opt
+}
