@@ -404,11 +404,7 @@ func (x *xesReader) addTrace(line int, tattrs []eventlog.Nested, events []xesEve
 		if a.Key == keyName && len(a.Children) == 0 {
 			continue
 		}
-		kind := xesKinds[a.Type]
-		text := a.Value
-		if len(a.Children) > 0 {
-			kind, text = eventlog.KindNested, a.Encode()
-		}
+		kind, text := stored(a)
 		x.b.SetCaseValue(x.b.CaseColumn(a.Key, kind), c, []byte(text))
 	}
 	for _, ev := range events {
@@ -486,12 +482,18 @@ func (x *xesReader) addEvent(c int32, ev xesEvent) error {
 				}
 			}
 		}
-		kind := xesKinds[a.Type]
-		text := a.Value
-		if len(a.Children) > 0 || kind == eventlog.KindNested {
-			kind, text = eventlog.KindNested, a.Encode()
-		}
+		kind, text := stored(a)
 		x.b.SetEventValue(x.b.EventColumn(a.Key, kind), idx, []byte(text))
 	}
 	return nil
+}
+
+// stored is how an attribute goes into a column: simple values as their text under their kind; a
+// list, a container (even an empty one) or a value with meta-attributes as its whole tree.
+func stored(a eventlog.Nested) (eventlog.Kind, string) {
+	kind := xesKinds[a.Type]
+	if len(a.Children) > 0 || kind == eventlog.KindNested {
+		return eventlog.KindNested, a.Encode()
+	}
+	return kind, a.Value
 }

@@ -167,3 +167,17 @@ func FuzzReadXES(f *testing.F) {
 		}
 	})
 }
+
+// TestEmptyListOnTrace: an empty list on a trace stays a list through a round trip of its text.
+func TestEmptyListOnTrace(t *testing.T) {
+	in := `<log><trace><string key="concept:name" value="c"/><list key="l"/><event><string key="concept:name" value="a"/></event></trace></log>`
+	l, _, err := readString(t, in, Options{})
+	require.NoError(t, err)
+	col := l.CaseAttr("l")
+	require.NotNil(t, col)
+	assert.Equal(t, eventlog.KindNested, col.Kind)
+	text, _ := col.Text(0)
+	n, err := eventlog.ParseNested(text)
+	require.NoError(t, err)
+	assert.Equal(t, "list", n.Type)
+}
