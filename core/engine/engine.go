@@ -80,8 +80,6 @@ type Engine struct {
 	mu      sync.Mutex
 	prevMap *layout.Result // the last flow map's layout, so that nodes keep their places
 	log     *eventlog.Log
-	report  *intake.Report
-	name    string
 	cancels map[int]context.CancelFunc
 }
 
@@ -269,7 +267,7 @@ func (e *Engine) load(ctx context.Context, req Request, f *File, emit func(Respo
 		return nil, err
 	}
 	e.mu.Lock()
-	e.log, e.report, e.name, e.prevMap = l, rep, f.Name, nil
+	e.log, e.prevMap = l, nil
 	e.mu.Unlock()
 	if rep.CSV != nil {
 		rep.CSV.Preview = nil // the page has it from sniff; keep the message small

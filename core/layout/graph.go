@@ -1,7 +1,5 @@
 package layout
 
-import "math"
-
 // Graph is what to draw: n nodes with their sizes (width and height in the final drawing's units)
 // and weighted directed edges.
 type Graph struct {
@@ -92,5 +90,3 @@ func (o *Options) defaults() {
 		o.Sweeps = 24
 	}
 }
-
-var inf = math.Inf(1)

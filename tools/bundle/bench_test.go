@@ -62,8 +62,8 @@ func BenchmarkPage(b *testing.B) {
 	runtime.GOMAXPROCS(prev)
 
 	for b.Loop() {
-		ctx, _ := browser(b)
-		profile := userDataDir(ctx)
+		ctx, rl := browser(b)
+		profile := rl.profile
 		start := time.Now()
 		if err := chromedp.Do(ctx, chromedp.Navigate("file://"+html), chromedp.WaitVisible(chromedp.CSS(`body[data-engine="ready"]`))); err != nil {
 			b.Fatal(err)
@@ -119,26 +119,6 @@ func BenchmarkPage(b *testing.B) {
 		b.ReportMetric(float64(peak-base)/(1<<20), "peak-extra-MB")
 		b.Logf("events %s, file %d MB, browser RSS %d MB before and %d MB at peak", got["events"], buf.Len()>>20, base>>20, peak>>20)
 	}
-}
-
-// userDataDir finds the profile folder of the browser behind ctx, which names its processes.
-func userDataDir(ctx context.Context) string {
-	c := chromedp.FromContext(ctx)
-	if c == nil || c.Browser == nil {
-		return ""
-	}
-	for _, p := range procs() {
-		if strings.Contains(p.cmd, "--user-data-dir=") && strings.Contains(p.cmd, "tracewright") == false {
-			if i := strings.Index(p.cmd, "--user-data-dir="); i >= 0 {
-				rest := p.cmd[i+len("--user-data-dir="):]
-				if j := strings.IndexByte(rest, 0); j >= 0 {
-					rest = rest[:j]
-				}
-				return rest
-			}
-		}
-	}
-	return ""
 }
 
 type proc struct {

@@ -73,7 +73,7 @@ func browser(t testing.TB) (context.Context, *requestLog) {
 	ctx, cancelC := chromedp.NewContext(actx)
 	ctx, cancelT := context.WithTimeout(ctx, 90*time.Second)
 	t.Cleanup(func() { cancelT(); cancelC(); cancelA() })
-	rl := &requestLog{}
+	rl := &requestLog{profile: profile}
 	require.NoError(t, chromedp.Listen(ctx, rl.listen))
 	_, err := chromedp.Call(ctx, network.Enable, network.EnableParams{})
 	require.NoError(t, err)
@@ -82,6 +82,7 @@ func browser(t testing.TB) (context.Context, *requestLog) {
 
 // requestLog keeps every request the page made, and how each one ended.
 type requestLog struct {
+	profile  string // the browser's profile folder, which names its processes
 	mu       sync.Mutex
 	urls     map[network.RequestID]string
 	order    []network.RequestID
