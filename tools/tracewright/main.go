@@ -7,6 +7,7 @@
 //	tracewright convert LOG --to xes|csv [--out FILE] [--force] [reading flags]
 //	tracewright dfg LOG [--activities SHARE] [--edges SHARE]   the directly-follows graph as JSON
 //	tracewright discover LOG [--method im|imd|alpha] [--noise F] [--out NET.pnml] [--dot NET.dot]
+//	tracewright predict LOG [--json] [--abstraction A] [--horizon K] [--outcome RULE] [--kfold K]
 //	tracewright version
 //
 // Reading flags: --case, --activity, --time, --start, --resource, --lifecycle name CSV columns
@@ -66,6 +67,7 @@ const usage = `usage:
   tracewright convert LOG --to xes|csv [--out FILE] [--force] [reading flags]
   tracewright dfg LOG [--activities SHARE] [--edges SHARE] [reading flags]
   tracewright discover LOG [--method im|imd|alpha] [--noise F] [--out NET.pnml] [--dot NET.dot] [--bpmn MODEL.bpmn] [--json]
+  tracewright predict LOG [--json] [--abstraction sequence|multiset|set] [--horizon K] [--outcome RULE] [--end A,B] [--kfold K]
   tracewright version
 
 reading flags:
@@ -94,6 +96,8 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		err = dfgCommand(ctx, args[1:], stdout)
 	case "discover":
 		err = discoverCommand(ctx, args[1:], stdout)
+	case "predict":
+		err = predictCommand(ctx, args[1:], stdout)
 	case "version", "--version":
 		fmt.Fprintln(stdout, "tracewright", engine.Version)
 	case "help", "-h", "--help":

@@ -150,3 +150,17 @@ func TestDiscoverAndDFG(t *testing.T) {
 	assert.Len(t, g["nodes"], 6) // start, end and four activities
 	assert.Len(t, g["edges"], 6) // start, register, inspect, then hand over or reject, end
 }
+
+func TestPredictJSON(t *testing.T) {
+	code, out, errs := runCLI("predict", "../../testdata/workshop.csv", "--json", "--outcome", "ends:Hand over bike", "--abstraction", "multiset")
+	require.Equal(t, exitOK, code, errs)
+	var res map[string]any
+	require.NoError(t, json.Unmarshal([]byte(out), &res))
+	for _, k := range []string{"mae_days", "baseline_mae_days", "coverage", "next_accuracy", "brier", "auc", "running", "caution"} {
+		assert.Contains(t, res, k)
+	}
+	assert.NotEmpty(t, res["running"])
+	code, _, errs = runCLI("predict", "../../testdata/workshop.csv", "--outcome", "soon")
+	assert.Equal(t, exitUsage, code)
+	assert.Contains(t, errs, "outcome")
+}

@@ -1,0 +1,509 @@
+package predict
+
+import (
+	"math"
+	"slices"
+	"time"
+
+	"tracewright/core/eventlog"
+	"tracewright/core/summary"
+	"tracewright/core/timestamp"
+)
+
+// Options steer fitting, evaluation and forecasts.
+type Options struct {
+	Config  Config
+	Outcome Outcome // nil: no outcome probabilities
+	// Alpha is the miscoverage of the interval: 0.2 gives 80% intervals (the default).
+	Alpha float64
+	// EndActivities end a case; nil infers them: activities that end at least 90% of their
+	// occurrences' cases (they are almost always last).
+	EndActivities []string
+	// Inactive is how long a case may be silent and still run; 0 infers the longest gap between
+	// two activities of any completed case.
+	Inactive time.Duration
+	// Export is the export date (Unix microseconds); 0 takes the log's last timestamp.
+	Export int64
+	// Cut is the hold-out's cut date; 0 takes the time by which 70% of completed cases had ended.
+	Cut int64
+}
+
+func (o *Options) defaults(l *eventlog.Log) {
+	if o.Alpha <= 0 || o.Alpha >= 1 {
+		o.Alpha = 0.2
+	}
+	if o.Export == 0 {
+		for _, t := range l.Time {
+			o.Export = max(o.Export, t)
+		}
+	}
+}
+
+// Model is a transition system with its calibrated interval radius.
+type Model struct {
+	System *System
+	// Radius is the conformal quantile of absolute errors, in seconds: the interval is the median
+	// prediction ± Radius.
+	Radius       float64
+	Calibrations int
+	alpha        float64
+}
+
+// Fit builds a model from completed cases: every fourth case (in log order) calibrates the
+// interval, the others annotate the states.
+func Fit(l *eventlog.Log, cases []int, opt Options) (*Model, error) {
+	opt.defaults(l)
+	var proper, calib []int
+	for i, c := range cases {
+		if i%4 == 3 {
+			calib = append(calib, c)
+		} else {
+			proper = append(proper, c)
+		}
+	}
+	sys, err := Build(l, proper, opt.Config, opt.Outcome)
+	if err != nil {
+		return nil, err
+	}
+	var scores []float64
+	for _, c := range calib {
+		acts, times := caseTimes(l, c)
+		attr := sys.attrOf(c)
+		for i := 1; i <= len(acts); i++ {
+			p := sys.Predict(acts[:i], attr)
+			actual := float64(times[len(times)-1]-times[i-1]) / 1e6
+			scores = append(scores, math.Abs(actual-p.MedianSeconds))
+		}
+	}
+	m := &Model{System: sys, Calibrations: len(scores), alpha: opt.Alpha}
+	if len(scores) > 0 {
+		slices.Sort(scores)
+		// the ⌈(n+1)(1-α)⌉-th smallest score (split conformal prediction)
+		// (with fewer than 1/α calibration prefixes that rank does not exist and the largest
+		// score is taken: the stated coverage is then not guaranteed)
+		k := int(math.Ceil(float64(len(scores)+1)*(1-opt.Alpha))) - 1
+		m.Radius = scores[min(max(k, 0), len(scores)-1)]
+	}
+	return m, nil
+}
+
+// Forecast is a prediction with its interval.
+type Forecast struct {
+	Prediction
+	LowSeconds  float64 `json:"low_seconds"`
+	HighSeconds float64 `json:"high_seconds"`
+}
+
+// Forecast predicts a prefix.
+func (m *Model) Forecast(acts []int32, attr string) Forecast {
+	p := m.System.Predict(acts, attr)
+	return Forecast{Prediction: p, LowSeconds: math.Max(0, p.MedianSeconds-m.Radius), HighSeconds: p.MedianSeconds + m.Radius}
+}
+
+// Partition says which cases are complete, which still run, and which were abandoned.
+type Partition struct {
+	Completed, Running, Abandoned []int
+	EndActivities                 []string
+	Inactive                      time.Duration
+}
+
+// Split sorts the cases of l by the rules of Options.
+func Split(l *eventlog.Log, opt Options) Partition {
+	opt.defaults(l)
+	ends := map[int32]bool{}
+	if opt.EndActivities != nil {
+		for _, n := range opt.EndActivities {
+			if id, ok := l.Activities.Lookup(n); ok {
+				ends[id] = true
+			}
+		}
+	} else {
+		last := make([]int, l.Activities.Len())
+		total := make([]int, l.Activities.Len())
+		for c := 0; c < l.NumCases(); c++ {
+			tr := l.Trace(c)
+			for i, a := range tr {
+				total[a]++
+				if i == len(tr)-1 {
+					last[a]++
+				}
+			}
+		}
+		for a := range last {
+			if total[a] > 0 && float64(last[a]) >= 0.9*float64(total[a]) {
+				ends[int32(a)] = true
+			}
+		}
+	}
+	var p Partition
+	for a := range ends {
+		p.EndActivities = append(p.EndActivities, l.Activities.Name(a))
+	}
+	slices.Sort(p.EndActivities)
+	var maxGap int64
+	isDone := make([]bool, l.NumCases())
+	for c := 0; c < l.NumCases(); c++ {
+		acts, times := caseTimes(l, c)
+		if len(acts) > 0 && ends[acts[len(acts)-1]] {
+			isDone[c] = true
+			for i := 1; i < len(times); i++ {
+				maxGap = max(maxGap, times[i]-times[i-1])
+			}
+		}
+	}
+	p.Inactive = opt.Inactive
+	if p.Inactive == 0 {
+		p.Inactive = time.Duration(maxGap) * time.Microsecond
+	}
+	for c := 0; c < l.NumCases(); c++ {
+		_, times := caseTimes(l, c)
+		switch {
+		case len(times) == 0:
+		case isDone[c]:
+			p.Completed = append(p.Completed, c)
+		case time.Duration(opt.Export-times[len(times)-1])*time.Microsecond > p.Inactive:
+			p.Abandoned = append(p.Abandoned, c)
+		default:
+			p.Running = append(p.Running, c)
+		}
+	}
+	return p
+}
+
+// Evaluation is the measured error of the forecasts on a temporal hold-out: the model is fitted
+// on cases that ended before the cut date and tested on every prefix of the completed cases that
+// were running at it.
+type Evaluation struct {
+	Cut          string      `json:"cut_date"`
+	TrainCases   int         `json:"train_cases"`
+	TestCases    int         `json:"test_cases"`
+	TestPrefixes int         `json:"test_prefixes"`
+	MAEDays      float64     `json:"mae_days"`
+	BaselineDays float64     `json:"baseline_mae_days"`      // mean remaining time by number of events
+	MeanBaseDays float64     `json:"baseline_mean_mae_days"` // mean remaining time of all prefixes
+	Ratio        float64     `json:"mae_ratio_to_baseline"`
+	Coverage     float64     `json:"coverage"`
+	Level        float64     `json:"interval_level"`
+	NextAccuracy float64     `json:"next_accuracy"`
+	Brier        float64     `json:"brier,omitempty"`
+	AUC          float64     `json:"auc,omitempty"`
+	ByLength     []LengthRow `json:"by_prefix_length"`
+}
+
+// LengthRow is the error at one prefix length.
+type LengthRow struct {
+	Events       int     `json:"events"`
+	Prefixes     int     `json:"prefixes"`
+	MAEDays      float64 `json:"mae_days"`
+	BaselineDays float64 `json:"baseline_mae_days"`
+	Coverage     float64 `json:"coverage"`
+}
+
+// Evaluate measures the forecasts' error on a temporal hold-out of the completed cases.
+func Evaluate(l *eventlog.Log, part Partition, opt Options) (*Evaluation, error) {
+	opt.defaults(l)
+	type span struct{ start, end int64 }
+	spans := map[int]span{}
+	var ends []float64
+	for _, c := range part.Completed {
+		_, times := caseTimes(l, c)
+		spans[c] = span{times[0], times[len(times)-1]}
+		ends = append(ends, float64(times[len(times)-1]))
+	}
+	if len(ends) < 8 {
+		return nil, errTooFew
+	}
+	slices.Sort(ends)
+	cut := opt.Cut
+	if cut == 0 {
+		cut = int64(summary.Quantile(ends, 0.7))
+	}
+	var train, test []int
+	for _, c := range part.Completed {
+		s := spans[c]
+		switch {
+		case s.end < cut:
+			train = append(train, c)
+		case s.start < cut:
+			test = append(test, c)
+		}
+	}
+	if len(train) < 4 || len(test) == 0 {
+		return nil, errTooFew
+	}
+	ev, err := score(l, train, test, opt)
+	if err != nil {
+		return nil, err
+	}
+	ev.Cut = timestamp.FormatRFC3339(cut)
+	return ev, nil
+}
+
+// KFold measures the error by k-fold cross-validation over the completed cases (in log order,
+// case i in fold i mod k): every case is tested once by a model fitted on the others. It avoids
+// the temporal hold-out's bias (cases running at the cut date and finished by the export are the
+// shorter ones) at the price of training on cases that ended after some of the tested ones.
+func KFold(l *eventlog.Log, part Partition, opt Options, k int) (*Evaluation, error) {
+	opt.defaults(l)
+	if k < 2 || len(part.Completed) < 2*k {
+		return nil, errTooFew
+	}
+	total := &Evaluation{Level: 1 - opt.Alpha}
+	var folds []*Evaluation
+	for f := 0; f < k; f++ {
+		var train, test []int
+		for i, c := range part.Completed {
+			if i%k == f {
+				test = append(test, c)
+			} else {
+				train = append(train, c)
+			}
+		}
+		ev, err := score(l, train, test, opt)
+		if err != nil {
+			return nil, err
+		}
+		folds = append(folds, ev)
+	}
+	// pool the folds, weighting each by its prefixes
+	for _, ev := range folds {
+		w := float64(ev.TestPrefixes)
+		total.TrainCases += ev.TrainCases
+		total.TestCases += ev.TestCases
+		total.TestPrefixes += ev.TestPrefixes
+		total.MAEDays += w * ev.MAEDays
+		total.BaselineDays += w * ev.BaselineDays
+		total.MeanBaseDays += w * ev.MeanBaseDays
+		total.Coverage += w * ev.Coverage
+		total.NextAccuracy += w * ev.NextAccuracy
+		total.Brier += w * ev.Brier
+		total.AUC += w * ev.AUC
+	}
+	n := float64(total.TestPrefixes)
+	total.TrainCases /= k
+	total.MAEDays /= n
+	total.BaselineDays /= n
+	total.MeanBaseDays /= n
+	total.Coverage /= n
+	total.NextAccuracy /= n
+	total.Brier /= n
+	total.AUC /= n
+	if total.BaselineDays > 0 {
+		total.Ratio = total.MAEDays / total.BaselineDays
+	}
+	total.Cut = "k-fold"
+	return total, nil
+}
+
+// score fits on train and measures on every prefix of test.
+func score(l *eventlog.Log, train, test []int, opt Options) (*Evaluation, error) {
+	m, err := Fit(l, train, opt)
+	if err != nil {
+		return nil, err
+	}
+	// baselines from the training prefixes
+	byLen := map[int][]float64{}
+	var allRem []float64
+	for _, c := range train {
+		_, times := caseTimes(l, c)
+		for i := 1; i <= len(times); i++ {
+			r := float64(times[len(times)-1]-times[i-1]) / 1e6
+			byLen[i] = append(byLen[i], r)
+			allRem = append(allRem, r)
+		}
+	}
+	meanAll := mean(allRem)
+	meanByLen := make(map[int]float64, len(byLen))
+	for k, xs := range byLen {
+		meanByLen[k] = mean(xs)
+	}
+	ev := &Evaluation{TrainCases: len(train), TestCases: len(test), Level: 1 - opt.Alpha}
+	type acc struct {
+		n, covered int
+		err, base  float64
+	}
+	rows := map[int]*acc{}
+	var sumErr, sumBase, sumMean float64
+	covered, nextRight, nextTotal := 0, 0, 0
+	var probs []float64
+	var labels []bool
+	for _, c := range test {
+		acts, times := caseTimes(l, c)
+		attr := m.System.attrOf(c)
+		met := opt.Outcome != nil && opt.Outcome.Met(l, acts, times)
+		for i := 1; i <= len(acts); i++ {
+			f := m.Forecast(acts[:i], attr)
+			actual := float64(times[len(times)-1]-times[i-1]) / 1e6
+			base, ok := meanByLen[i]
+			if !ok {
+				base = meanAll
+			}
+			e := math.Abs(actual - f.MedianSeconds)
+			sumErr += e
+			sumBase += math.Abs(actual - base)
+			sumMean += math.Abs(actual - meanAll)
+			in := actual >= f.LowSeconds && actual <= f.HighSeconds
+			if in {
+				covered++
+			}
+			r := rows[min(i, 20)]
+			if r == nil {
+				r = &acc{}
+				rows[min(i, 20)] = r
+			}
+			r.n++
+			r.err += e
+			r.base += math.Abs(actual - base)
+			if in {
+				r.covered++
+			}
+			// next activity: the most likely continuation, or the end
+			best, bestP := "", f.End
+			for a, p := range f.Next {
+				if p > bestP || (p == bestP && a < best) {
+					best, bestP = a, p
+				}
+			}
+			truth := ""
+			if i < len(acts) {
+				truth = l.Activities.Name(acts[i])
+			}
+			nextTotal++
+			if best == truth {
+				nextRight++
+			}
+			if opt.Outcome != nil {
+				probs = append(probs, f.Outcome)
+				labels = append(labels, met)
+			}
+			ev.TestPrefixes++
+		}
+	}
+	n := float64(ev.TestPrefixes)
+	const day = 86400
+	ev.MAEDays, ev.BaselineDays, ev.MeanBaseDays = sumErr/n/day, sumBase/n/day, sumMean/n/day
+	if ev.BaselineDays > 0 {
+		ev.Ratio = ev.MAEDays / ev.BaselineDays
+	}
+	ev.Coverage = float64(covered) / n
+	ev.NextAccuracy = float64(nextRight) / float64(nextTotal)
+	if len(probs) > 0 {
+		ev.Brier = Brier(probs, labels)
+		ev.AUC = AUC(probs, labels)
+	}
+	for k := 1; k <= 20; k++ {
+		if r := rows[k]; r != nil {
+			ev.ByLength = append(ev.ByLength, LengthRow{Events: k, Prefixes: r.n, MAEDays: r.err / float64(r.n) / day,
+				BaselineDays: r.base / float64(r.n) / day, Coverage: float64(r.covered) / float64(r.n)})
+		}
+	}
+	return ev, nil
+}
+
+// Brier is the mean squared difference between predicted probabilities and what happened
+// (Brier 1950).
+func Brier(p []float64, y []bool) float64 {
+	s := 0.0
+	for i := range p {
+		v := 0.0
+		if y[i] {
+			v = 1
+		}
+		s += (p[i] - v) * (p[i] - v)
+	}
+	return s / float64(len(p))
+}
+
+// AUC is the area under the ROC curve: the probability that a random positive gets a higher
+// score than a random negative, ties counting half (the Mann-Whitney form). 0.5 without both
+// classes.
+func AUC(p []float64, y []bool) float64 {
+	type pair struct {
+		p float64
+		y bool
+	}
+	ps := make([]pair, len(p))
+	for i := range p {
+		ps[i] = pair{p[i], y[i]}
+	}
+	slices.SortFunc(ps, func(a, b pair) int {
+		switch {
+		case a.p < b.p:
+			return -1
+		case a.p > b.p:
+			return 1
+		}
+		return 0
+	})
+	// average ranks over ties
+	var pos, neg, rankSum float64
+	for i := 0; i < len(ps); {
+		j := i
+		for j < len(ps) && ps[j].p == ps[i].p {
+			j++
+		}
+		avg := float64(i+j+1) / 2 // ranks i+1 .. j
+		for k := i; k < j; k++ {
+			if ps[k].y {
+				rankSum += avg
+				pos++
+			} else {
+				neg++
+			}
+		}
+		i = j
+	}
+	if pos == 0 || neg == 0 {
+		return 0.5
+	}
+	return (rankSum - pos*(pos+1)/2) / (pos * neg)
+}
+
+type predictError string
+
+func (e predictError) Error() string { return string(e) }
+
+const errTooFew = predictError("too few completed cases before and after the cut date to measure the error (at least 8 completed cases are needed)")
+
+// RunningForecast is the forecast for one running case.
+type RunningForecast struct {
+	Case      string   `json:"case"`
+	Events    int      `json:"events"`
+	Last      string   `json:"last_activity"`
+	Since     string   `json:"last_event"`
+	Forecast  Forecast `json:"forecast"`
+	Finish    string   `json:"expected_finish"`
+	FinishLow string   `json:"finish_low"`
+	FinishHi  string   `json:"finish_high,omitempty"`
+}
+
+// ForecastRunning fits a model on all completed cases and forecasts every running case.
+func ForecastRunning(l *eventlog.Log, part Partition, opt Options) (*Model, []RunningForecast, error) {
+	opt.defaults(l)
+	m, err := Fit(l, part.Completed, opt)
+	if err != nil {
+		return nil, nil, err
+	}
+	var out []RunningForecast
+	for _, c := range part.Running {
+		acts, times := caseTimes(l, c)
+		f := m.Forecast(acts, m.System.attrOf(c))
+		last := times[len(times)-1]
+		rf := RunningForecast{Case: l.CaseID(c), Events: len(acts), Last: l.Activities.Name(acts[len(acts)-1]),
+			Since: timestamp.FormatRFC3339(last), Forecast: f,
+			Finish:    timestamp.FormatRFC3339(last + int64(f.MedianSeconds*1e6)),
+			FinishLow: timestamp.FormatRFC3339(last + int64(f.LowSeconds*1e6)),
+			FinishHi:  timestamp.FormatRFC3339(last + int64(f.HighSeconds*1e6))}
+		out = append(out, rf)
+	}
+	slices.SortStableFunc(out, func(a, b RunningForecast) int {
+		switch {
+		case a.Finish < b.Finish:
+			return -1
+		case a.Finish > b.Finish:
+			return 1
+		}
+		return 0
+	})
+	return m, out, nil
+}
