@@ -14,8 +14,8 @@
     return e;
   };
   const fmtInt = (n) => Number(n).toLocaleString('en-US');
-  const sections = ['start', 'mapping', 'progress', 'problem', 'overview', 'flowmap', 'model'];
-  const views = ['overview', 'flowmap', 'model'];
+  const sections = ['start', 'mapping', 'progress', 'problem', 'overview', 'flowmap', 'model', 'forecast'];
+  const views = ['overview', 'flowmap', 'model', 'forecast'];
   function show(name) {
     for (const s of sections) $(s).hidden = s !== name;
     document.body.dataset.state = name;
@@ -328,6 +328,7 @@
       show(b.dataset.view);
       if (b.dataset.view === 'flowmap') drawFlowMap();
       if (b.dataset.view === 'model') drawModel();
+      if (b.dataset.view === 'forecast' && !forecast) runForecast();
     });
   }
   $('views').setAttribute('role', 'tablist');
@@ -464,6 +465,75 @@
   $('md-dot').addEventListener('click', () => { if (model) download('model.dot', 'text/vnd.graphviz', model.dot); });
   $('md-svg').addEventListener('click', () => { if (model) download('model.svg', 'image/svg+xml', model.svg); });
   $('md-bpmn').addEventListener('click', () => { if (model && model.bpmn) download('model.bpmn', 'application/xml', model.bpmn); });
+
+  let forecast = null;
+  async function runForecast() {
+    const kind = $('fc-outcome-kind').value;
+    let arg = $('fc-outcome-arg').value.trim();
+    if (kind === 'longer' && arg && !/[a-z]$/.test(arg)) arg += 'd';
+    const opts = { abstraction: $('fc-abs').value, horizon: Number($('fc-horizon').value), kfold: 5,
+      outcome: kind && arg ? kind + ':' + arg : '' };
+    $('fc-eval').replaceChildren(el('p', { class: 'muted', text: 'Measuring on past cases…' }));
+    try {
+      const { done } = await call('forecast', opts);
+      forecast = await done;
+      renderForecast();
+    } catch (err) {
+      $('fc-eval').replaceChildren(el('p', { class: 'bad', text: err.message || String(err) }));
+    }
+  }
+  $('fc-run').addEventListener('click', runForecast);
+  const pct = (x) => (100 * x).toFixed(1) + '%';
+  function renderForecast() {
+    const f = forecast, ev = f.evaluation;
+    const figs = el('div', { class: 'figures' });
+    const fig = (metric, label, value) => figs.append(el('div', { class: 'figure', 'data-metric': metric, 'data-value': String(value) },
+      el('span', { class: 'value', text: label[0] }), el('span', { class: 'label', text: label[1] })));
+    fig('mae_days', [ev.mae_days.toFixed(2) + ' d', 'typical error of the remaining time'], ev.mae_days);
+    fig('baseline_mae_days', [ev.baseline_mae_days.toFixed(2) + ' d', 'error of a plain average by number of steps'], ev.baseline_mae_days);
+    fig('coverage', [pct(ev.coverage), 'of past cases fell inside the ' + pct(ev.interval_level).replace('.0', '') + ' range'], ev.coverage);
+    fig('next_accuracy', [pct(ev.next_accuracy), 'next activity guessed right'], ev.next_accuracy);
+    if (f.outcome) fig('auc', [ev.auc.toFixed(2), 'how well the chance of "' + f.outcome + '" ranks cases (AUC; 0.5 is a coin)'], ev.auc);
+    const rows = el('tbody');
+    for (const r of ev.by_prefix_length || []) {
+      rows.append(el('tr', {}, el('td', { class: 'num', text: String(r.events) + (r.events === 20 ? '+' : '') }), el('td', { class: 'num', text: fmtInt(r.prefixes) }),
+        el('td', { class: 'num', text: r.mae_days.toFixed(2) }), el('td', { class: 'num', text: r.baseline_mae_days.toFixed(2) }), el('td', { class: 'num', text: pct(r.coverage) })));
+    }
+    const byLen = el('details', {}, el('summary', { text: 'Error by number of steps so far' }),
+      el('div', { class: 'table-wrap' }, el('table', {}, el('thead', {}, el('tr', {}, el('th', { class: 'num', text: 'Steps' }), el('th', { class: 'num', text: 'Moments tested' }),
+        el('th', { class: 'num', text: 'Error (d)' }), el('th', { class: 'num', text: 'Plain average (d)' }), el('th', { class: 'num', text: 'Inside the range' }))), rows)));
+    const how = el('p', { class: 'muted small', text: 'Trained on ' + fmtInt(ev.train_cases) + ' cases that ended before ' + ev.cut_date.slice(0, 10) +
+      ', tested on ' + fmtInt(ev.test_prefixes) + ' moments of ' + fmtInt(ev.test_cases) + ' cases that were open then.' +
+      (f.kfold ? ' Across 5 folds of all finished cases: error ' + f.kfold.mae_days.toFixed(2) + ' d, ' + pct(f.kfold.coverage) + ' inside the range.' : '') +
+      ' A case is finished when it reaches ' + f.end_activities.join(', ') + '; one silent for more than ' + f.inactive_after_days.toFixed(0) + ' days counts as abandoned (' + fmtInt(f.abandoned_cases) + ').' });
+    $('fc-eval').replaceChildren(figs, how, byLen);
+    const t = $('fc-list');
+    const head = el('tr', {}, el('th', { scope: 'col', text: 'Case' }), el('th', { scope: 'col', text: 'Last activity' }), el('th', { scope: 'col', text: 'Expected finish' }),
+      el('th', { scope: 'col', text: 'Likely between' }), el('th', { scope: 'col', text: 'Most likely next' }), f.outcome ? el('th', { scope: 'col', class: 'num', text: 'Chance: ' + f.outcome }) : null);
+    const body = el('tbody');
+    for (const r of f.running) {
+      const fc = r.forecast;
+      let next = 'finish', best = fc.end_probability;
+      for (const [a, p] of Object.entries(fc.next)) if (p > best) { best = p; next = a; }
+      const note = fc.fallback ? ' (from the last ' + (fc.horizon > 0 ? fc.horizon + ' steps' : 'nothing') + ': this path is new)' : '';
+      body.append(el('tr', {}, el('td', { text: r.case }), el('td', { text: r.last_activity }), el('td', { text: r.expected_finish.slice(0, 10) + note }),
+        el('td', { text: r.finish_low.slice(0, 10) + ' to ' + r.finish_high.slice(0, 10) }), el('td', { text: next + ' (' + pct(best) + ')' }),
+        f.outcome ? el('td', { class: 'num', text: pct(fc.outcome_probability) }) : null));
+    }
+    t.replaceChildren(el('thead', {}, head), body);
+    $('fc-list-wrap').hidden = false;
+    $('forecast').dataset.ready = 'true';
+  }
+  $('fc-csv').addEventListener('click', () => {
+    if (!forecast) return;
+    const q = (v) => '"' + String(v).replace(/"/g, '""') + '"';
+    const lines = [['case', 'last_activity', 'events', 'expected_finish', 'finish_low', 'finish_high', 'median_remaining_days', 'outcome_probability'].join(',')];
+    for (const r of forecast.running) {
+      const fc = r.forecast;
+      lines.push([q(r.case), q(r.last_activity), r.events, r.expected_finish, r.finish_low, r.finish_high, (fc.median_seconds / 86400).toFixed(3), forecast.outcome ? fc.outcome_probability.toFixed(4) : ''].join(','));
+    }
+    download('forecasts.csv', 'text/csv', lines.join('\n') + '\n');
+  });
 
   startEngine();
 })();

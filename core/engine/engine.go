@@ -26,6 +26,7 @@ import (
 	"tracewright/core/layout"
 	"tracewright/core/overview"
 	"tracewright/core/petri"
+	"tracewright/core/predict"
 	"tracewright/core/render"
 	"tracewright/core/timestamp"
 	"tracewright/core/tree"
@@ -121,6 +122,8 @@ func (e *Engine) Handle(ctx context.Context, req Request, file *File, emit func(
 		payload, err = e.model(req.Payload)
 	case "flow_detail":
 		payload, err = e.flowDetail(req.Payload)
+	case "forecast":
+		payload, err = e.forecast(req.Payload)
 	case "cancel":
 		payload, err = e.cancel(req.Payload)
 	default:
@@ -526,4 +529,71 @@ func (e *Engine) flowDetail(raw json.RawMessage) ([]dfg.CaseRef, error) {
 		return nil, fmt.Errorf("flow_detail: no such activity")
 	}
 	return dfg.TopCases(l, dfg.Options{Activities: p.Activities}, from, to, 5), nil
+}
+
+// ForecastOptions are the forecast view's settings.
+type ForecastOptions struct {
+	Abstraction string   `json:"abstraction"` // sequence (default), multiset or set
+	Horizon     int      `json:"horizon"`
+	Outcome     string   `json:"outcome"` // ends:X, contains:X, longer:10d, or ""
+	End         []string `json:"end_activities"`
+	KFold       int      `json:"kfold"`
+}
+
+// ForecastResult is the evaluation beside the forecasts, as the page must show them together.
+type ForecastResult struct {
+	Evaluation    *predict.Evaluation       `json:"evaluation"`
+	KFold         *predict.Evaluation       `json:"kfold,omitempty"`
+	EndActivities []string                  `json:"end_activities"`
+	Completed     int                       `json:"completed_cases"`
+	Abandoned     int                       `json:"abandoned_cases"`
+	InactiveDays  float64                   `json:"inactive_after_days"`
+	Outcome       string                    `json:"outcome,omitempty"`
+	Running       []predict.RunningForecast `json:"running"`
+}
+
+func (e *Engine) forecast(raw json.RawMessage) (*ForecastResult, error) {
+	var o ForecastOptions
+	if len(raw) > 0 {
+		if err := json.Unmarshal(raw, &o); err != nil {
+			return nil, fmt.Errorf("forecast options: %w", err)
+		}
+	}
+	l, err := e.loaded()
+	if err != nil {
+		return nil, err
+	}
+	a, err := predict.ParseAbstraction(o.Abstraction)
+	if err != nil {
+		return nil, err
+	}
+	if o.Horizon < 0 {
+		return nil, errors.New("the horizon is 0 (the whole prefix) or more")
+	}
+	opt := predict.Options{Config: predict.Config{Abstraction: a, Horizon: o.Horizon}, EndActivities: o.End}
+	res := &ForecastResult{}
+	if o.Outcome != "" {
+		if opt.Outcome, err = predict.ParseOutcome(o.Outcome); err != nil {
+			return nil, err
+		}
+		res.Outcome = opt.Outcome.String()
+	}
+	part := predict.Split(l, opt)
+	res.EndActivities, res.Completed, res.Abandoned = part.EndActivities, len(part.Completed), len(part.Abandoned)
+	res.InactiveDays = part.Inactive.Hours() / 24
+	if res.Evaluation, err = predict.Evaluate(l, part, opt); err != nil {
+		return nil, err
+	}
+	if o.KFold > 1 {
+		if res.KFold, err = predict.KFold(l, part, opt, o.KFold); err != nil {
+			return nil, err
+		}
+	}
+	if _, res.Running, err = predict.ForecastRunning(l, part, opt); err != nil {
+		return nil, err
+	}
+	if res.Running == nil {
+		res.Running = []predict.RunningForecast{}
+	}
+	return res, nil
 }

@@ -188,3 +188,18 @@ func TestFlowMapAndModel(t *testing.T) {
 	r = e.Handle(context.Background(), req("model", 4, `{"method":"nope"}`), nil, nil)
 	assert.Equal(t, "error", r.Kind)
 }
+
+func TestForecast(t *testing.T) {
+	data, err := os.ReadFile("../../testdata/workshop.csv")
+	require.NoError(t, err)
+	e := New()
+	require.Equal(t, "result", e.Handle(context.Background(), req("load", 1, ""), fileOf("w.csv", string(data)), nil).Kind)
+	r := e.Handle(context.Background(), req("forecast", 2, `{"abstraction":"multiset","outcome":"ends:Hand over bike","kfold":5}`), nil, nil)
+	require.Equal(t, "result", r.Kind, "%v", r.Payload)
+	f := r.Payload.(*ForecastResult)
+	assert.NotEmpty(t, f.Running)
+	assert.Positive(t, f.Evaluation.TestPrefixes)
+	assert.NotNil(t, f.KFold)
+	r = e.Handle(context.Background(), req("forecast", 3, `{"outcome":"someday"}`), nil, nil)
+	assert.Equal(t, "error", r.Kind)
+}

@@ -421,3 +421,34 @@ func TestViews(t *testing.T) {
 	assert.Empty(t, rl.outgoing("file://"+html))
 	assert.Empty(t, rl.failures)
 }
+
+// TestForecastView opens the forecast of the demo log with an outcome and checks that the error
+// figures stand beside the list of open cases, with the caution.
+func TestForecastView(t *testing.T) {
+	html := builtPage(t)
+	ctx, rl := browser(t)
+	require.NoError(t, chromedp.Do(ctx,
+		chromedp.Navigate("file://"+html),
+		chromedp.WaitVisible(chromedp.CSS(`body[data-engine="ready"]`)),
+		chromedp.Click(chromedp.CSS(`#demo-button`)),
+		chromedp.WaitVisible(chromedp.CSS(`#mapping`)),
+		chromedp.Click(chromedp.CSS(`#read-button`)),
+		chromedp.WaitVisible(chromedp.CSS(`#overview[data-ready="true"]`)),
+		chromedp.Click(chromedp.CSS(`#views [data-view="forecast"]`)),
+		chromedp.WaitVisible(chromedp.CSS(`#forecast[data-ready="true"] #fc-list tbody tr`)),
+		chromedp.SetValue(chromedp.CSS(`#fc-outcome-kind`), "ends"),
+		chromedp.SetValue(chromedp.CSS(`#fc-outcome-arg`), "Hand over bike"),
+		chromedp.Click(chromedp.CSS(`#fc-run`)),
+		chromedp.WaitVisible(chromedp.CSS(`#fc-eval [data-metric="auc"]`)),
+	))
+	got := metrics(t, ctx)
+	for _, k := range []string{"mae_days", "baseline_mae_days", "coverage", "auc"} {
+		assert.NotEmpty(t, got[k], k)
+	}
+	caution, err := chromedp.Run(ctx, chromedp.Text(chromedp.CSS(`#forecast .notice`)))
+	require.NoError(t, err)
+	assert.Contains(t, caution, "not guarantees")
+	shot(t, ctx, "forecast")
+	assert.Empty(t, rl.outgoing("file://"+html))
+	assert.Empty(t, rl.failures)
+}
