@@ -471,8 +471,9 @@
     const kind = $('fc-outcome-kind').value;
     let arg = $('fc-outcome-arg').value.trim();
     if (kind === 'longer' && arg && !/[a-z]$/.test(arg)) arg += 'd';
+    const ends = [...$('fc-ends').querySelectorAll('input:checked')].map((i) => i.value);
     const opts = { abstraction: $('fc-abs').value, horizon: Number($('fc-horizon').value), kfold: 5,
-      outcome: kind && arg ? kind + ':' + arg : '' };
+      outcome: kind && arg ? kind + ':' + arg : '', export_date: $('fc-export').value, end_activities: ends };
     $('fc-eval').replaceChildren(el('p', { class: 'muted', text: 'Measuring on past cases…' }));
     try {
       const { done } = await call('forecast', opts);
@@ -483,9 +484,20 @@
     }
   }
   $('fc-run').addEventListener('click', runForecast);
+  $('fc-sort').addEventListener('change', () => { if (forecast) renderForecast(); });
   const pct = (x) => (100 * x).toFixed(1) + '%';
+  function renderEnds(f) {
+    const box = $('fc-ends');
+    if (box.querySelector('input')) return; // the user's choice stays
+    for (const a of f.activities) {
+      const cb = el('input', { type: 'checkbox', value: a });
+      cb.checked = f.end_activities.includes(a);
+      box.append(el('label', {}, cb, ' ' + a));
+    }
+  }
   function renderForecast() {
     const f = forecast, ev = f.evaluation;
+    renderEnds(f);
     const figs = el('div', { class: 'figures' });
     const fig = (metric, label, value) => figs.append(el('div', { class: 'figure', 'data-metric': metric, 'data-value': String(value) },
       el('span', { class: 'value', text: label[0] }), el('span', { class: 'label', text: label[1] })));
@@ -502,7 +514,8 @@
     const byLen = el('details', {}, el('summary', { text: 'Error by number of steps so far' }),
       el('div', { class: 'table-wrap' }, el('table', {}, el('thead', {}, el('tr', {}, el('th', { class: 'num', text: 'Steps' }), el('th', { class: 'num', text: 'Moments tested' }),
         el('th', { class: 'num', text: 'Error (d)' }), el('th', { class: 'num', text: 'Plain average (d)' }), el('th', { class: 'num', text: 'Inside the range' }))), rows)));
-    const how = el('p', { class: 'muted small', text: 'Trained on ' + fmtInt(ev.train_cases) + ' cases that ended before ' + ev.cut_date.slice(0, 10) +
+    const chosen = f.choices ? ' The states were chosen by measurement: ' + f.config.abstraction + ' over ' + (f.config.horizon ? 'the last ' + f.config.horizon + ' activities' : 'the whole case so far') + '.' : '';
+    const how = el('p', { class: 'muted small', text: chosen + ' Trained on ' + fmtInt(ev.train_cases) + ' cases that ended before ' + ev.cut_date.slice(0, 10) +
       ', tested on ' + fmtInt(ev.test_prefixes) + ' moments of ' + fmtInt(ev.test_cases) + ' cases that were open then.' +
       (f.kfold ? ' Across 5 folds of all finished cases: error ' + f.kfold.mae_days.toFixed(2) + ' d, ' + pct(f.kfold.coverage) + ' inside the range.' : '') +
       ' A case is finished when it reaches ' + f.end_activities.join(', ') + '; one silent for more than ' + f.inactive_after_days.toFixed(0) + ' days counts as abandoned (' + fmtInt(f.abandoned_cases) + ').' });
@@ -511,7 +524,11 @@
     const head = el('tr', {}, el('th', { scope: 'col', text: 'Case' }), el('th', { scope: 'col', text: 'Last activity' }), el('th', { scope: 'col', text: 'Expected finish' }),
       el('th', { scope: 'col', text: 'Likely between' }), el('th', { scope: 'col', text: 'Most likely next' }), f.outcome ? el('th', { scope: 'col', class: 'num', text: 'Chance: ' + f.outcome }) : null);
     const body = el('tbody');
-    for (const r of f.running) {
+    const order = $('fc-sort').value;
+    const running = [...f.running];
+    if (order === 'late') running.sort((a, b) => (a.finish_high < b.finish_high ? 1 : -1));
+    if (order === 'risk') running.sort((a, b) => b.forecast.outcome_probability - a.forecast.outcome_probability);
+    for (const r of running) {
       const fc = r.forecast;
       let next = 'finish', best = fc.end_probability;
       for (const [a, p] of Object.entries(fc.next)) if (p > best) { best = p; next = a; }

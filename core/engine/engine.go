@@ -15,6 +15,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"slices"
 	"strings"
 	"sync"
 
@@ -531,9 +532,12 @@ func (e *Engine) flowDetail(raw json.RawMessage) ([]dfg.CaseRef, error) {
 	return dfg.TopCases(l, dfg.Options{Activities: p.Activities}, from, to, 5), nil
 }
 
+var isoDay, _ = timestamp.ParseFormat("YYYY-MM-DD[Thh:mm[:ss[.f]][Z]]")
+
 // ForecastOptions are the forecast view's settings.
 type ForecastOptions struct {
-	Abstraction string   `json:"abstraction"` // sequence (default), multiset or set
+	Abstraction string   `json:"abstraction"` // sequence (default), multiset, set, or auto (measured)
+	ExportDate  string   `json:"export_date"` // RFC 3339; "" is the log's last timestamp
 	Horizon     int      `json:"horizon"`
 	Outcome     string   `json:"outcome"` // ends:X, contains:X, longer:10d, or ""
 	End         []string `json:"end_activities"`
@@ -549,6 +553,9 @@ type ForecastResult struct {
 	Abandoned     int                       `json:"abandoned_cases"`
 	InactiveDays  float64                   `json:"inactive_after_days"`
 	Outcome       string                    `json:"outcome,omitempty"`
+	Config        predict.Config            `json:"config"`
+	Choices       []predict.Choice          `json:"choices,omitempty"` // when the states were chosen by measurement
+	Activities    []string                  `json:"activities"`        // for the end-activity picker
 	Running       []predict.RunningForecast `json:"running"`
 }
 
@@ -563,15 +570,28 @@ func (e *Engine) forecast(raw json.RawMessage) (*ForecastResult, error) {
 	if err != nil {
 		return nil, err
 	}
-	a, err := predict.ParseAbstraction(o.Abstraction)
-	if err != nil {
-		return nil, err
+	auto := o.Abstraction == "auto"
+	var a predict.Abstraction
+	if !auto {
+		if a, err = predict.ParseAbstraction(o.Abstraction); err != nil {
+			return nil, err
+		}
 	}
 	if o.Horizon < 0 {
 		return nil, errors.New("the horizon is 0 (the whole prefix) or more")
 	}
-	opt := predict.Options{Config: predict.Config{Abstraction: a, Horizon: o.Horizon}, EndActivities: o.End}
-	res := &ForecastResult{}
+	opt := predict.Options{Config: predict.Config{Abstraction: a, Horizon: o.Horizon}}
+	if len(o.End) > 0 {
+		opt.EndActivities = o.End
+	}
+	if o.ExportDate != "" {
+		t, ok := isoDay.ParseString(o.ExportDate)
+		if !ok {
+			return nil, fmt.Errorf("the export date %q is not a date like 2025-04-30", o.ExportDate)
+		}
+		opt.Export = t
+	}
+	res := &ForecastResult{Activities: slices.Sorted(slices.Values(l.Activities.Names()))}
 	if o.Outcome != "" {
 		if opt.Outcome, err = predict.ParseOutcome(o.Outcome); err != nil {
 			return nil, err
@@ -580,6 +600,12 @@ func (e *Engine) forecast(raw json.RawMessage) (*ForecastResult, error) {
 	}
 	part := predict.Split(l, opt)
 	res.EndActivities, res.Completed, res.Abandoned = part.EndActivities, len(part.Completed), len(part.Abandoned)
+	if auto {
+		if opt.Config, res.Choices, err = predict.Choose(l, part, opt); err != nil {
+			return nil, err
+		}
+	}
+	res.Config = opt.Config
 	res.InactiveDays = part.Inactive.Hours() / 24
 	if res.Evaluation, err = predict.Evaluate(l, part, opt); err != nil {
 		return nil, err

@@ -200,6 +200,9 @@ func TestForecast(t *testing.T) {
 	assert.NotEmpty(t, f.Running)
 	assert.Positive(t, f.Evaluation.TestPrefixes)
 	assert.NotNil(t, f.KFold)
+	r = e.Handle(context.Background(), req("forecast", 4, `{"abstraction":"auto","end_activities":["Hand over bike","Return bike"],"export_date":"2025-04-30"}`), nil, nil)
+	require.Equal(t, "result", r.Kind, "%v", r.Payload)
+	assert.Len(t, r.Payload.(*ForecastResult).Choices, 12)
 	r = e.Handle(context.Background(), req("forecast", 3, `{"outcome":"someday"}`), nil, nil)
 	assert.Equal(t, "error", r.Kind)
 }

@@ -106,3 +106,18 @@ func TestKFold(t *testing.T) {
 	assert.InDelta(t, 0.8, ev.Coverage, 0.05, "no temporal shift: the conformal level holds")
 	assert.Less(t, ev.Ratio, 1.0, "the states beat the prefix-length baseline")
 }
+
+func TestChoose(t *testing.T) {
+	l := generated(t, synth.Config{Seed: 6, Events: 20000, Noise: 0.05, Shifts: true})
+	part := Split(l, Options{})
+	cfg, table, err := Choose(l, part, Options{})
+	require.NoError(t, err)
+	require.Len(t, table, 12)
+	for _, c := range table {
+		if c.Config == cfg {
+			for _, d := range table {
+				assert.LessOrEqual(t, c.MAEDays, d.MAEDays)
+			}
+		}
+	}
+}

@@ -40,11 +40,11 @@ func (a Abstraction) MarshalText() ([]byte, error) { return []byte(a.String()), 
 
 // Config chooses the states.
 type Config struct {
-	Abstraction Abstraction
+	Abstraction Abstraction `json:"abstraction"`
 	// Horizon is k, the number of last activity instances a state looks at; 0 is the whole prefix.
-	Horizon int
+	Horizon int `json:"horizon"`
 	// Attribute, when set, names a case attribute whose value becomes part of every state.
-	Attribute string
+	Attribute string `json:"attribute,omitempty"`
 }
 
 // key is the state of a prefix (activities a[:n] of a case whose attribute value is attr).

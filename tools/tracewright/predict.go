@@ -22,6 +22,7 @@ type predictOutput struct {
 	Completed     int                       `json:"completed_cases"`
 	Abandoned     int                       `json:"abandoned_cases"`
 	KFold         *predict.Evaluation       `json:"kfold,omitempty"`
+	Choices       []predict.Choice          `json:"choices,omitempty"`
 	Running       []predict.RunningForecast `json:"running"`
 	Caution       string                    `json:"caution"`
 }
@@ -32,7 +33,7 @@ func predictCommand(ctx context.Context, args []string, stdout io.Writer) error 
 	fs := flag.NewFlagSet("predict", flag.ContinueOnError)
 	var rf readFlags
 	rf.register(fs)
-	abs := fs.String("abstraction", "sequence", "sequence, multiset or set")
+	abs := fs.String("abstraction", "sequence", "sequence, multiset, set, or auto (the one that predicted past cases best)")
 	horizon := fs.Int("horizon", 0, "how many last activities a state looks at (0: all)")
 	attr := fs.String("attribute", "", "a case attribute that refines the states")
 	outcome := fs.String("outcome", "", "ends:ACTIVITY, contains:ACTIVITY or longer:DURATION (e.g. longer:10d)")
@@ -40,13 +41,17 @@ func predictCommand(ctx context.Context, args []string, stdout io.Writer) error 
 	inactive := fs.Duration("inactive", 0, "a case silent longer than this is abandoned, not running (default: the longest pause of any completed case)")
 	kfold := fs.Int("kfold", 0, "also evaluate by k-fold cross-validation over cases")
 	asJSON := fs.Bool("json", false, "print JSON")
-	path, err := parse(fs, args)
-	if err != nil {
-		return err
+	path, perr := parse(fs, args)
+	if perr != nil {
+		return perr
 	}
-	a, err := predict.ParseAbstraction(*abs)
-	if err != nil {
-		return &usageError{err.Error()}
+	auto := *abs == "auto"
+	var a predict.Abstraction
+	var err error
+	if !auto {
+		if a, err = predict.ParseAbstraction(*abs); err != nil {
+			return &usageError{err.Error()}
+		}
 	}
 	if *horizon < 0 {
 		return &usageError{"--horizon is 0 (all) or more"}
@@ -65,12 +70,19 @@ func predictCommand(ctx context.Context, args []string, stdout io.Writer) error 
 		return err
 	}
 	part := predict.Split(l, opt)
+	var choices []predict.Choice
+	if auto {
+		if opt.Config, choices, err = predict.Choose(l, part, opt); err != nil {
+			return err
+		}
+		a, *horizon = opt.Config.Abstraction, opt.Config.Horizon
+	}
 	ev, err := predict.Evaluate(l, part, opt)
 	if err != nil {
 		return err
 	}
 	out := predictOutput{Evaluation: ev, Abstraction: a, Horizon: *horizon, EndActivities: part.EndActivities,
-		InactiveDays: part.Inactive.Hours() / 24, Completed: len(part.Completed), Abandoned: len(part.Abandoned), Caution: caution}
+		InactiveDays: part.Inactive.Hours() / 24, Completed: len(part.Completed), Abandoned: len(part.Abandoned), Caution: caution, Choices: choices}
 	if opt.Outcome != nil {
 		out.Outcome = opt.Outcome.String()
 	}

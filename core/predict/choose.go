@@ -1,0 +1,34 @@
+package predict
+
+import "tracewright/core/eventlog"
+
+// Choice is one candidate state definition and its measured error.
+type Choice struct {
+	Config  Config  `json:"config"`
+	MAEDays float64 `json:"mae_days"`
+}
+
+// Choose measures every abstraction over the whole prefix and the last 1, 2 and 3 activities by
+// 3-fold cross-validation over the completed cases, and returns the one with the smallest mean
+// absolute error of the remaining time, with the table of all. The attribute refinement of opt is
+// kept. (The choice sees all completed cases, so a temporal hold-out measured afterwards is a
+// little optimistic; k-fold figures are not.)
+func Choose(l *eventlog.Log, part Partition, opt Options) (Config, []Choice, error) {
+	var table []Choice
+	best := -1
+	for _, a := range []Abstraction{Sequence, Multiset, Set} {
+		for _, h := range []int{0, 1, 2, 3} {
+			o := opt
+			o.Config = Config{Abstraction: a, Horizon: h, Attribute: opt.Config.Attribute}
+			ev, err := KFold(l, part, o, 3)
+			if err != nil {
+				return opt.Config, nil, err
+			}
+			table = append(table, Choice{Config: o.Config, MAEDays: ev.MAEDays})
+			if best < 0 || ev.MAEDays < table[best].MAEDays {
+				best = len(table) - 1
+			}
+		}
+	}
+	return table[best].Config, table, nil
+}
