@@ -68,6 +68,7 @@ const usage = `usage:
   tracewright dfg LOG [--activities SHARE] [--edges SHARE] [reading flags]
   tracewright discover LOG [--method im|imd|alpha] [--noise F] [--out NET.pnml] [--dot NET.dot] [--bpmn MODEL.bpmn] [--json]
   tracewright predict LOG [--json] [--abstraction sequence|multiset|set] [--horizon K] [--outcome RULE] [--end A,B] [--kfold K]
+  tracewright conform LOG --model NET.pnml [--json]   token replay (alignments to come)
   tracewright version
 
 reading flags:
@@ -98,6 +99,8 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		err = discoverCommand(ctx, args[1:], stdout)
 	case "predict":
 		err = predictCommand(ctx, args[1:], stdout)
+	case "conform":
+		err = conformCommand(ctx, args[1:], stdout)
 	case "version", "--version":
 		fmt.Fprintln(stdout, "tracewright", engine.Version)
 	case "help", "-h", "--help":

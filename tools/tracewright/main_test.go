@@ -164,3 +164,22 @@ func TestPredictJSON(t *testing.T) {
 	assert.Equal(t, exitUsage, code)
 	assert.Contains(t, errs, "outcome")
 }
+
+func TestConformTokenReplay(t *testing.T) {
+	dir := t.TempDir()
+	pnml := filepath.Join(dir, "net.pnml")
+	code, _, errs := runCLI("discover", "testdata/small.csv", "--out", pnml)
+	require.Equal(t, exitOK, code, errs)
+	code, out, errs := runCLI("conform", "testdata/small.csv", "--model", pnml, "--json")
+	require.Equal(t, exitOK, code, errs)
+	var res struct {
+		TokenReplay struct {
+			Fitness float64 `json:"fitness"`
+		} `json:"token_replay"`
+	}
+	require.NoError(t, json.Unmarshal([]byte(out), &res))
+	assert.Equal(t, 1.0, res.TokenReplay.Fitness, "the log fits the model discovered from it")
+	code, _, errs = runCLI("conform", "testdata/small.csv")
+	assert.Equal(t, exitUsage, code)
+	assert.Contains(t, errs, "--model")
+}

@@ -1,0 +1,266 @@
+// Package conformance compares an event log with a process model (a Petri net) and says where
+// practice departs from it.
+//
+// Token-based replay (Rozinat and van der Aalst, "Conformance checking of processes based on
+// monitoring real behavior", Information Systems 33(1), 2008) plays each trace on the net: an
+// event fires a transition with its activity as label; a transition that is not enabled is first
+// enabled by the shortest sequence of silent transitions that does it (breadth first over
+// markings, bounded), else the missing tokens are created and counted. At the end the silent
+// transitions may run to the final marking, whose tokens are then consumed; tokens left are
+// remaining. With p produced, c consumed, m missing and r remaining tokens (counting the tokens of
+// the initial marking as produced and of the final marking as consumed), fitness is
+// ½(1 − m/c) + ½(1 − r/p), for one trace or summed over the log (weighted by how often each trace
+// occurs: the log's fitness is not the mean of the traces').
+//
+// Events whose activity no transition carries cannot be replayed; they are passed over and
+// counted, and the activities and labels that do not match are listed.
+package conformance
+
+import (
+	"slices"
+
+	"tracewright/core/eventlog"
+	"tracewright/core/petri"
+)
+
+// Tokens are the four counts of token replay.
+type Tokens struct {
+	Produced  int `json:"produced"`
+	Consumed  int `json:"consumed"`
+	Missing   int `json:"missing"`
+	Remaining int `json:"remaining"`
+}
+
+// Fitness is ½(1 − m/c) + ½(1 − r/p) (Rozinat and van der Aalst 2008, definition 3).
+func (t Tokens) Fitness() float64 {
+	f := 1.0
+	if t.Consumed > 0 {
+		f -= 0.5 * float64(t.Missing) / float64(t.Consumed)
+	}
+	if t.Produced > 0 {
+		f -= 0.5 * float64(t.Remaining) / float64(t.Produced)
+	}
+	return f
+}
+
+func (t *Tokens) add(o Tokens, n int) {
+	t.Produced += n * o.Produced
+	t.Consumed += n * o.Consumed
+	t.Missing += n * o.Missing
+	t.Remaining += n * o.Remaining
+}
+
+// VariantReplay is the replay of one variant.
+type VariantReplay struct {
+	Trace    []string `json:"trace"`
+	Cases    int      `json:"cases"`
+	Tokens   Tokens   `json:"tokens"`
+	Fitness  float64  `json:"fitness"`
+	Unplayed int      `json:"unplayed_events"` // events without a transition for their activity
+}
+
+// ReplayResult is the replay of a log.
+type ReplayResult struct {
+	Tokens    Tokens          `json:"tokens"`
+	Fitness   float64         `json:"fitness"`
+	Variants  []VariantReplay `json:"variants"`
+	Unmatched Matching        `json:"unmatched"`
+}
+
+// Matching lists the activities no transition carries and the labels no activity has.
+type Matching struct {
+	Activities []string `json:"activities"`
+	Labels     []string `json:"labels"`
+}
+
+// Match compares the log's activities with the net's visible labels.
+func Match(l *eventlog.Log, n *petri.Net) Matching {
+	labels := map[string]bool{}
+	for _, t := range n.Transitions {
+		if !t.Silent() {
+			labels[t.Label] = true
+		}
+	}
+	acts := map[string]bool{}
+	m := Matching{Activities: []string{}, Labels: []string{}}
+	for _, a := range l.Activities.Names() {
+		acts[a] = true
+		if !labels[a] {
+			m.Activities = append(m.Activities, a)
+		}
+	}
+	for lb := range labels {
+		if !acts[lb] {
+			m.Labels = append(m.Labels, lb)
+		}
+	}
+	slices.Sort(m.Activities)
+	slices.Sort(m.Labels)
+	return m
+}
+
+// silentLimit bounds the markings explored when looking for silent firings.
+const silentLimit = 10000
+
+// Replay replays every variant of the log on the net, which must have initial and final markings.
+func Replay(l *eventlog.Log, n *petri.Net) ReplayResult {
+	res := ReplayResult{Unmatched: Match(l, n)}
+	byLabel := map[string][]int{}
+	for t, tr := range n.Transitions {
+		if !tr.Silent() {
+			byLabel[tr.Label] = append(byLabel[tr.Label], t)
+		}
+	}
+	for _, v := range l.Variants {
+		var trace []string
+		for _, a := range v.Activities {
+			trace = append(trace, l.Activities.Name(a))
+		}
+		tok, unplayed := ReplayTrace(n, byLabel, trace)
+		res.Variants = append(res.Variants, VariantReplay{Trace: trace, Cases: len(v.Cases), Tokens: tok, Fitness: tok.Fitness(), Unplayed: unplayed})
+		res.Tokens.add(tok, len(v.Cases))
+	}
+	res.Fitness = res.Tokens.Fitness()
+	return res
+}
+
+// ReplayTrace replays one trace (activity names). byLabel maps labels to transitions (nil builds
+// it).
+func ReplayTrace(n *petri.Net, byLabel map[string][]int, trace []string) (Tokens, int) {
+	if byLabel == nil {
+		byLabel = map[string][]int{}
+		for t, tr := range n.Transitions {
+			if !tr.Silent() {
+				byLabel[tr.Label] = append(byLabel[tr.Label], t)
+			}
+		}
+	}
+	var tok Tokens
+	m := slices.Clone(n.Initial)
+	for _, k := range m {
+		tok.Produced += k
+	}
+	unplayed := 0
+	for _, a := range trace {
+		ts := byLabel[a]
+		if len(ts) == 0 {
+			unplayed++
+			continue
+		}
+		// an enabled transition first; else one that silent firings can enable; else the one
+		// missing the fewest tokens
+		t := -1
+		for _, c := range ts {
+			if n.Enabled(m, c) {
+				t = c
+				break
+			}
+		}
+		if t < 0 {
+			for _, c := range ts {
+				if seq, ok := silentPath(n, m, func(x petri.Marking) bool { return n.Enabled(x, c) }); ok {
+					for _, s := range seq {
+						m = fire(n, m, s, &tok)
+					}
+					t = c
+					break
+				}
+			}
+		}
+		if t < 0 {
+			best, bestMiss := ts[0], 1<<30
+			for _, c := range ts {
+				if k := missing(n, m, c); k < bestMiss {
+					best, bestMiss = c, k
+				}
+			}
+			t = best
+			need := map[int]int{}
+			for _, p := range n.Transitions[t].In {
+				need[p]++
+			}
+			for p, k := range need {
+				if m[p] < k {
+					tok.Missing += k - m[p]
+					m[p] = k
+				}
+			}
+		}
+		m = fire(n, m, t, &tok)
+	}
+	// let silent transitions reach the final marking if they can
+	if n.Final != nil && !m.Equal(n.Final) {
+		if seq, ok := silentPath(n, m, func(x petri.Marking) bool { return x.Equal(n.Final) }); ok {
+			for _, s := range seq {
+				m = fire(n, m, s, &tok)
+			}
+		}
+	}
+	for p, k := range n.Final {
+		tok.Consumed += k
+		if m[p] < k {
+			tok.Missing += k - m[p]
+			m[p] = 0
+		} else {
+			m[p] -= k
+		}
+	}
+	for _, k := range m {
+		tok.Remaining += k
+	}
+	return tok, unplayed
+}
+
+func fire(n *petri.Net, m petri.Marking, t int, tok *Tokens) petri.Marking {
+	tok.Consumed += len(n.Transitions[t].In)
+	tok.Produced += len(n.Transitions[t].Out)
+	return n.Fire(m, t)
+}
+
+func missing(n *petri.Net, m petri.Marking, t int) int {
+	need := map[int]int{}
+	for _, p := range n.Transitions[t].In {
+		need[p]++
+	}
+	k := 0
+	for p, c := range need {
+		if m[p] < c {
+			k += c - m[p]
+		}
+	}
+	return k
+}
+
+// silentPath finds the shortest sequence of silent transitions from m to a marking where goal
+// holds (breadth first, at most silentLimit markings).
+func silentPath(n *petri.Net, m petri.Marking, goal func(petri.Marking) bool) ([]int, bool) {
+	type node struct {
+		m      petri.Marking
+		parent int
+		t      int
+	}
+	nodes := []node{{m, -1, -1}}
+	seen := map[string]bool{m.Key(): true}
+	for i := 0; i < len(nodes) && len(nodes) < silentLimit; i++ {
+		cur := nodes[i]
+		if i > 0 && goal(cur.m) {
+			var seq []int
+			for j := i; j > 0; j = nodes[j].parent {
+				seq = append(seq, nodes[j].t)
+			}
+			slices.Reverse(seq)
+			return seq, true
+		}
+		for t, tr := range n.Transitions {
+			if !tr.Silent() || !n.Enabled(cur.m, t) {
+				continue
+			}
+			next := n.Fire(cur.m, t)
+			if k := next.Key(); !seen[k] {
+				seen[k] = true
+				nodes = append(nodes, node{next, i, t})
+			}
+		}
+	}
+	return nil, false
+}
