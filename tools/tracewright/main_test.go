@@ -173,12 +173,25 @@ func TestConformTokenReplay(t *testing.T) {
 	code, out, errs := runCLI("conform", "testdata/small.csv", "--model", pnml, "--json")
 	require.Equal(t, exitOK, code, errs)
 	var res struct {
+		Fitness   float64 `json:"fitness"`
+		Precision float64 `json:"precision"`
+		Variants  []struct {
+			Trace []string `json:"trace"`
+			Cases int      `json:"cases"`
+			Cost  int      `json:"cost"`
+			Moves []any    `json:"moves"`
+		} `json:"variants"`
 		TokenReplay struct {
 			Fitness float64 `json:"fitness"`
 		} `json:"token_replay"`
 	}
 	require.NoError(t, json.Unmarshal([]byte(out), &res))
 	assert.Equal(t, 1.0, res.TokenReplay.Fitness, "the log fits the model discovered from it")
+	assert.Equal(t, 1.0, res.Fitness)
+	assert.Equal(t, 1.0, res.Precision, "the model allows exactly the log's two traces")
+	require.Len(t, res.Variants, 2)
+	assert.Zero(t, res.Variants[0].Cost)
+	assert.NotEmpty(t, res.Variants[0].Moves)
 	code, _, errs = runCLI("conform", "testdata/small.csv")
 	assert.Equal(t, exitUsage, code)
 	assert.Contains(t, errs, "--model")
