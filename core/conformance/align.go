@@ -4,6 +4,7 @@ import (
 	"container/heap"
 	"errors"
 	"fmt"
+	"strconv"
 	"strings"
 
 	"tracewright/core/petri"
@@ -84,7 +85,7 @@ func (q *queue) Pop() any {
 // analysis", EDOC 2011). The heuristic counts the remaining events whose activity no transition
 // carries (each must be a log move): admissible, so the first goal popped is optimal. The
 // marking-equation heuristic of that paper (and its extension by van Dongen 2018) would explore
-// fewer states; it is not implemented yet. At most maxStates states are expanded.
+// far fewer states; it is still to come. At most maxStates states are expanded.
 func Align(n *petri.Net, trace []string, costs Costs, maxStates int) (*Alignment, error) {
 	if n.Initial == nil || n.Final == nil {
 		return nil, errors.New("the net needs an initial and a final marking")
@@ -103,7 +104,7 @@ func Align(n *petri.Net, trace []string, costs Costs, maxStates int) (*Alignment
 			h[i] += costs.logCost(trace[i])
 		}
 	}
-	key := func(m petri.Marking, i int) string { return fmt.Sprintf("%d|%s", i, m.Key()) }
+	key := func(m petri.Marking, i int) string { return strconv.Itoa(i) + "|" + m.Key() }
 	nodes := []*searchNode{{m: n.Initial, i: 0, g: 0, f: h[0], parent: -1}}
 	best := map[string]int{key(n.Initial, 0): 0}
 	closed := map[string]bool{}

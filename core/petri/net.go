@@ -12,9 +12,9 @@
 package petri
 
 import (
+	"encoding/binary"
 	"fmt"
 	"slices"
-	"strings"
 )
 
 // Net is a Petri net. Places and transitions are numbered from 0; arcs carry weight 1 (PNML
@@ -45,15 +45,17 @@ func (t *Transition) Silent() bool { return t.Label == "" }
 // Marking counts the tokens of each place, indexed like Net.Places.
 type Marking []int
 
-// Key is the marking as a string, for use as a map key.
+// Key is the marking as a short binary string (place and count of each marked place, as
+// varints), for use as a map key; searches over markings build millions of them.
 func (m Marking) Key() string {
-	var b strings.Builder
+	b := make([]byte, 0, 16)
 	for i, n := range m {
 		if n != 0 {
-			fmt.Fprintf(&b, "%d:%d,", i, n)
+			b = binary.AppendUvarint(b, uint64(i))
+			b = binary.AppendUvarint(b, uint64(n))
 		}
 	}
-	return b.String()
+	return string(b)
 }
 
 // Equal reports whether two markings are the same.
@@ -77,15 +79,24 @@ func (n *Net) AddTransition(id, label string, in, out []int) int {
 	return len(n.Transitions) - 1
 }
 
-// Enabled reports whether transition t can fire in marking m.
+// Enabled reports whether transition t can fire in marking m. It allocates nothing: searches
+// call it for every transition in every marking.
 func (n *Net) Enabled(m Marking, t int) bool {
-	need := map[int]int{}
-	for _, p := range n.Transitions[t].In {
-		need[p]++
-	}
-	for p, k := range need {
-		if m[p] < k {
+	in := n.Transitions[t].In
+	for _, p := range in {
+		if m[p] == 0 {
 			return false
+		}
+		if m[p] < len(in) { // a place listed several times needs as many tokens
+			k := 0
+			for _, q := range in {
+				if q == p {
+					k++
+				}
+			}
+			if m[p] < k {
+				return false
+			}
 		}
 	}
 	return true
