@@ -14,8 +14,8 @@
     return e;
   };
   const fmtInt = (n) => Number(n).toLocaleString('en-US');
-  const sections = ['start', 'mapping', 'progress', 'problem', 'overview', 'flowmap', 'model', 'forecast'];
-  const views = ['overview', 'flowmap', 'model', 'forecast'];
+  const sections = ['start', 'mapping', 'progress', 'problem', 'overview', 'flowmap', 'model', 'conformance', 'forecast'];
+  const views = ['overview', 'flowmap', 'model', 'conformance', 'forecast'];
   function show(name) {
     for (const s of sections) $(s).hidden = s !== name;
     document.body.dataset.state = name;
@@ -329,6 +329,7 @@
       if (b.dataset.view === 'flowmap') drawFlowMap();
       if (b.dataset.view === 'model') drawModel();
       if (b.dataset.view === 'forecast' && !forecast) runForecast();
+      if (b.dataset.view === 'conformance' && !conf) runConformance();
     });
   }
   $('views').setAttribute('role', 'tablist');
@@ -465,6 +466,67 @@
   $('md-dot').addEventListener('click', () => { if (model) download('model.dot', 'text/vnd.graphviz', model.dot); });
   $('md-svg').addEventListener('click', () => { if (model) download('model.svg', 'image/svg+xml', model.svg); });
   $('md-bpmn').addEventListener('click', () => { if (model && model.bpmn) download('model.bpmn', 'application/xml', model.bpmn); });
+
+  let conf = null;
+  let pnmlFile = null;
+  $('cf-file').addEventListener('change', (e) => {
+    if (e.target.files.length) { pnmlFile = e.target.files[0]; document.querySelector('input[name=cf-source][value=pnml]').checked = true; runConformance(); }
+    e.target.value = '';
+  });
+  async function runConformance() {
+    const source = document.querySelector('input[name=cf-source]:checked').value;
+    if (source === 'pnml' && !pnmlFile) { $('cf-model').textContent = 'Choose a PNML file first.'; return; }
+    $('cf-model').textContent = 'Setting every path against the model…';
+    try {
+      const { done } = await call('conformance', { source, noise: $('md-noise').value / 100 }, source === 'pnml' ? pnmlFile : null);
+      conf = await done;
+      renderConformance();
+    } catch (err) {
+      $('cf-model').textContent = '';
+      $('cf-figures').replaceChildren(el('p', { class: 'bad', text: err.message || String(err) }));
+    }
+  }
+  $('cf-run').addEventListener('click', runConformance);
+  function renderConformance() {
+    const c = conf, a = c.alignment;
+    $('cf-model').textContent = 'Reference model: ' + c.model + '.';
+    const figs = $('cf-figures');
+    figs.replaceChildren();
+    const fig = (metric, value, text, label) => figs.append(el('div', { class: 'figure', 'data-metric': metric, 'data-value': String(value) },
+      el('span', { class: 'value', text }), el('span', { class: 'label', text: label })));
+    fig('fitness', a.fitness, a.fitness.toFixed(3), 'fitness: how much of the log the model explains (1 is all)');
+    fig('precision', a.precision, a.precision.toFixed(3), 'precision: how little the model allows beyond the log (1 is nothing)');
+    fig('fitting_share', a.fitting_cases / a.cases, pct(a.fitting_cases / a.cases), 'of cases follow the model exactly');
+    fig('token_replay', c.token_replay_fitness, c.token_replay_fitness.toFixed(3), 'fitness by token replay');
+    const notes = $('cf-notes');
+    notes.replaceChildren();
+    if (a.variants_not_aligned) notes.append(el('p', { class: 'notice', text: a.variants_not_aligned + ' paths were too costly to set against the model within the bound and are left out of the figures.' }));
+    if (c.unmatched.activities.length) notes.append(el('p', { class: 'notice', text: 'Activities the model does not know: ' + c.unmatched.activities.join(', ') + '.' }));
+    if (c.unmatched.labels.length) notes.append(el('p', { class: 'notice', text: 'Model steps the log never shows: ' + c.unmatched.labels.join(', ') + '.' }));
+    const t = $('cf-acts');
+    t.replaceChildren(el('thead', {}, el('tr', {}, el('th', { scope: 'col', text: 'Activity' }), el('th', { scope: 'col', class: 'num', text: 'As allowed' }),
+      el('th', { scope: 'col', class: 'num', text: 'Not allowed there' }), el('th', { scope: 'col', class: 'num', text: 'Skipped' }))));
+    const tb = el('tbody');
+    for (const d of c.activities) {
+      tb.append(el('tr', {}, el('td', { text: d.activity }), el('td', { class: 'num', text: fmtInt(d.sync) }), el('td', { class: 'num', text: fmtInt(d.log_moves) }), el('td', { class: 'num', text: fmtInt(d.model_moves) })));
+    }
+    t.append(tb);
+    const list = $('cf-vars');
+    list.replaceChildren();
+    const vars = a.variants.filter((v) => v.aligned).sort((x, y) => y.cases - x.cases).slice(0, 15);
+    for (const v of vars) {
+      const chips = [];
+      for (const m of v.moves) {
+        if (m.silent) continue;
+        const cls = m.kind === 'sync' ? 'chip' : m.kind === 'log' ? 'chip mv-log' : 'chip mv-model';
+        const title = m.kind === 'sync' ? 'as the model allows' : m.kind === 'log' ? 'done, but the model does not allow it here' : 'required by the model, skipped';
+        chips.push(el('span', { class: cls, text: m.activity, title }));
+      }
+      list.append(el('li', {}, el('span', { class: 'share', text: fmtInt(v.cases) + ' cases' }),
+        el('span', { class: 'muted small', text: v.cost ? v.cost + ' deviations' : 'fits' }), el('br'), ...chips));
+    }
+    $('conformance').dataset.ready = 'true';
+  }
 
   let forecast = null;
   async function runForecast() {

@@ -181,3 +181,19 @@ func TestBoundIsReported(t *testing.T) {
 	_, err := Align(n, []string{"x", "y", "z", "x", "y", "z"}, Costs{}, 10)
 	assert.ErrorIs(t, err, ErrBound)
 }
+
+func TestDeviations(t *testing.T) {
+	n := netOf(t, "→(a, b, c)")
+	res, err := AlignLog(logOf(t, "a,c", "a,c", "a,b,x,c", "a,b,c"), n, Costs{}, 10000)
+	require.NoError(t, err)
+	acts, pats := Deviations(res)
+	byName := map[string]ActivityDeviation{}
+	for _, d := range acts {
+		byName[d.Activity] = d
+	}
+	assert.Equal(t, ActivityDeviation{Activity: "b", Sync: 2, Skipped: 2}, byName["b"])
+	assert.Equal(t, ActivityDeviation{Activity: "x", LogMoves: 1}, byName["x"])
+	require.Len(t, pats, 2)
+	assert.Equal(t, Pattern{Kind: "model", Activity: "b", Cases: 2, Variants: pats[0].Variants}, pats[0])
+	assert.Equal(t, "x", pats[1].Activity)
+}

@@ -20,6 +20,7 @@ import (
 	"sync"
 
 	"tracewright/core/bpmn"
+	"tracewright/core/conformance"
 	"tracewright/core/dfg"
 	"tracewright/core/discovery"
 	"tracewright/core/eventlog"
@@ -125,6 +126,8 @@ func (e *Engine) Handle(ctx context.Context, req Request, file *File, emit func(
 		payload, err = e.flowDetail(req.Payload)
 	case "forecast":
 		payload, err = e.forecast(req.Payload)
+	case "conformance":
+		payload, err = e.conformance(req.Payload, file)
 	case "cancel":
 		payload, err = e.cancel(req.Payload)
 	default:
@@ -620,6 +623,74 @@ func (e *Engine) forecast(raw json.RawMessage) (*ForecastResult, error) {
 	}
 	if res.Running == nil {
 		res.Running = []predict.RunningForecast{}
+	}
+	return res, nil
+}
+
+// ConformanceOptions choose the reference model: the model discovered with the given noise, or
+// a PNML file handed over with the request.
+type ConformanceOptions struct {
+	Source    string  `json:"source"` // "discovered" (default) or "pnml"
+	Noise     float64 `json:"noise"`
+	MaxStates int     `json:"max_states"` // per variant; 0: 50,000
+}
+
+// ConformanceResult is what the conformance view shows.
+type ConformanceResult struct {
+	Model       string                          `json:"model"`
+	Alignment   *conformance.Result             `json:"alignment"`
+	TokenReplay float64                         `json:"token_replay_fitness"`
+	Activities  []conformance.ActivityDeviation `json:"activities"`
+	Patterns    []conformance.Pattern           `json:"patterns"`
+	Unmatched   conformance.Matching            `json:"unmatched"`
+	SVG         string                          `json:"svg"`
+}
+
+func (e *Engine) conformance(raw json.RawMessage, f *File) (*ConformanceResult, error) {
+	var o ConformanceOptions
+	if len(raw) > 0 {
+		if err := json.Unmarshal(raw, &o); err != nil {
+			return nil, fmt.Errorf("conformance options: %w", err)
+		}
+	}
+	if o.MaxStates <= 0 {
+		o.MaxStates = 50000
+	}
+	l, err := e.loaded()
+	if err != nil {
+		return nil, err
+	}
+	res := &ConformanceResult{}
+	var net *petri.Net
+	switch o.Source {
+	case "", "discovered":
+		t := discovery.InductiveMiner(discovery.FromEventLog(l), discovery.Options{Noise: o.Noise})
+		net = petri.FromTree(t)
+		res.Model = fmt.Sprintf("discovered by the Inductive Miner (leaving out %.0f%%)", o.Noise*100)
+	case "pnml":
+		if f == nil {
+			return nil, errors.New("choose a PNML file for the reference model")
+		}
+		if net, err = petri.ReadPNML(f.R); err != nil {
+			return nil, err
+		}
+		res.Model = f.Name
+		if err := net.Sound(200000); err != nil {
+			return nil, fmt.Errorf("%s is not a sound workflow net: %w", f.Name, err)
+		}
+		src, _, _ := net.WorkflowNet()
+		net.Initial = net.Marking(src)
+	default:
+		return nil, fmt.Errorf("unknown model source %q", o.Source)
+	}
+	if res.Alignment, err = conformance.AlignLog(l, net, conformance.Costs{}, o.MaxStates); err != nil {
+		return nil, err
+	}
+	rep := conformance.Replay(l, net)
+	res.TokenReplay, res.Unmatched = rep.Fitness, rep.Unmatched
+	res.Activities, res.Patterns = conformance.Deviations(res.Alignment)
+	if res.SVG, _, err = render.PetriNet(net); err != nil {
+		return nil, err
 	}
 	return res, nil
 }

@@ -206,3 +206,21 @@ func TestForecast(t *testing.T) {
 	r = e.Handle(context.Background(), req("forecast", 3, `{"outcome":"someday"}`), nil, nil)
 	assert.Equal(t, "error", r.Kind)
 }
+
+func TestConformance(t *testing.T) {
+	data, err := os.ReadFile("../../testdata/workshop.csv")
+	require.NoError(t, err)
+	e := New()
+	require.Equal(t, "result", e.Handle(context.Background(), req("load", 1, ""), fileOf("w.csv", string(data)), nil).Kind)
+	r := e.Handle(context.Background(), req("conformance", 2, `{"source":"discovered","noise":0.2}`), nil, nil)
+	require.Equal(t, "result", r.Kind, "%v", r.Payload)
+	c := r.Payload.(*ConformanceResult)
+	assert.Greater(t, c.Alignment.Fitness, 0.8)
+	assert.Greater(t, c.Alignment.Precision, 0.5)
+	assert.NotEmpty(t, c.Activities)
+	pnml, err := os.ReadFile("../petri/testdata/running-example.pnml")
+	require.NoError(t, err)
+	r = e.Handle(context.Background(), req("conformance", 3, `{"source":"pnml"}`), fileOf("x.pnml", string(pnml)), nil)
+	require.Equal(t, "result", r.Kind, "%v", r.Payload)
+	assert.NotEmpty(t, r.Payload.(*ConformanceResult).Unmatched.Labels, "the running example's labels are not the workshop's")
+}

@@ -452,3 +452,33 @@ func TestForecastView(t *testing.T) {
 	assert.Empty(t, rl.outgoing("file://"+html))
 	assert.Empty(t, rl.failures)
 }
+
+// TestConformanceView checks the demo log against its discovered model and against a PNML file.
+func TestConformanceView(t *testing.T) {
+	html := builtPage(t)
+	pnml, _ := filepath.Abs("../../core/petri/testdata/running-example.pnml")
+	ctx, rl := browser(t)
+	require.NoError(t, chromedp.Do(ctx,
+		chromedp.Navigate("file://"+html),
+		chromedp.WaitVisible(chromedp.CSS(`body[data-engine="ready"]`)),
+		chromedp.Click(chromedp.CSS(`#demo-button`)),
+		chromedp.WaitVisible(chromedp.CSS(`#mapping`)),
+		chromedp.Click(chromedp.CSS(`#read-button`)),
+		chromedp.WaitVisible(chromedp.CSS(`#overview[data-ready="true"]`)),
+		chromedp.Click(chromedp.CSS(`#views [data-view="conformance"]`)),
+		chromedp.WaitVisible(chromedp.CSS(`#conformance[data-ready="true"] [data-metric="fitness"]`)),
+	))
+	got := metrics(t, ctx)
+	assert.NotEmpty(t, got["fitness"])
+	assert.NotEmpty(t, got["precision"])
+	shot(t, ctx, "conformance")
+	require.NoError(t, chromedp.Do(ctx,
+		chromedp.SetUploadFiles(chromedp.CSS(`#cf-file`), []string{pnml}),
+		chromedp.WaitVisible(chromedp.CSS(`#cf-notes .notice`)),
+	))
+	notes, err := chromedp.Run(ctx, chromedp.Text(chromedp.CSS(`#cf-notes`)))
+	require.NoError(t, err)
+	assert.Contains(t, notes, "Activities the model does not know")
+	assert.Empty(t, rl.outgoing("file://"+html))
+	assert.Empty(t, rl.failures)
+}
