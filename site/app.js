@@ -489,7 +489,7 @@
   $('cf-run').addEventListener('click', runConformance);
   function renderConformance() {
     const c = conf, a = c.alignment;
-    $('cf-model').textContent = 'Reference model: ' + c.model + '.';
+    $('cf-model').textContent = 'Reference model: ' + c.model + '.' + (c.running_cases_left_out ? ' ' + fmtInt(c.running_cases_left_out) + ' cases still running are left out: their missing ends are not deviations.' : '');
     const figs = $('cf-figures');
     figs.replaceChildren();
     const fig = (metric, value, text, label) => figs.append(el('div', { class: 'figure', 'data-metric': metric, 'data-value': String(value) },

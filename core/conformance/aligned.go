@@ -38,6 +38,13 @@ type Result struct {
 // model run), over cases (so not the mean of the traces' fitness), and escaping-edges precision.
 // Variants over the bound are reported as not aligned and left out of both figures.
 func AlignLog(l *eventlog.Log, n *petri.Net, costs Costs, maxStates int) (*Result, error) {
+	return AlignCases(l, n, costs, maxStates, nil)
+}
+
+// AlignCases is AlignLog over the cases keep accepts (nil keeps all): a variant counts only its
+// kept cases, and a variant with none is left out. Conformance of running cases is usually not
+// wanted: their missing ends would count as skipped steps.
+func AlignCases(l *eventlog.Log, n *petri.Net, costs Costs, maxStates int, keep func(c int) bool) (*Result, error) {
 	shortest, err := ShortestRun(n, costs, maxStates)
 	if err != nil {
 		return nil, err
@@ -45,11 +52,23 @@ func AlignLog(l *eventlog.Log, n *petri.Net, costs Costs, maxStates int) (*Resul
 	res := &Result{ShortestRun: shortest}
 	var num, den float64
 	for _, v := range l.Variants {
+		cases := len(v.Cases)
+		if keep != nil {
+			cases = 0
+			for _, c := range v.Cases {
+				if keep(int(c)) {
+					cases++
+				}
+			}
+			if cases == 0 {
+				continue
+			}
+		}
 		var trace []string
 		for _, a := range v.Activities {
 			trace = append(trace, l.Activities.Name(a))
 		}
-		va := VariantAlignment{Trace: trace, Cases: len(v.Cases)}
+		va := VariantAlignment{Trace: trace, Cases: cases}
 		res.Cases += va.Cases
 		al, err := Align(n, trace, costs, maxStates)
 		if err != nil {

@@ -633,11 +633,15 @@ type ConformanceOptions struct {
 	Source    string  `json:"source"` // "discovered" (default) or "pnml"
 	Noise     float64 `json:"noise"`
 	MaxStates int     `json:"max_states"` // per variant; 0: 50,000
+	// Running includes cases still running (by the forecast's rules); by default they are left
+	// out, since their missing ends would count as skipped steps.
+	Running bool `json:"include_running"`
 }
 
 // ConformanceResult is what the conformance view shows.
 type ConformanceResult struct {
 	Model       string                          `json:"model"`
+	LeftOut     int                             `json:"running_cases_left_out"`
 	Alignment   *conformance.Result             `json:"alignment"`
 	TokenReplay float64                         `json:"token_replay_fitness"`
 	Activities  []conformance.ActivityDeviation `json:"activities"`
@@ -683,7 +687,17 @@ func (e *Engine) conformance(raw json.RawMessage, f *File) (*ConformanceResult, 
 	default:
 		return nil, fmt.Errorf("unknown model source %q", o.Source)
 	}
-	if res.Alignment, err = conformance.AlignLog(l, net, conformance.Costs{}, o.MaxStates); err != nil {
+	var keep func(int) bool
+	if !o.Running {
+		part := predict.Split(l, predict.Options{})
+		running := map[int]bool{}
+		for _, c := range part.Running {
+			running[c] = true
+		}
+		res.LeftOut = len(running)
+		keep = func(c int) bool { return !running[c] }
+	}
+	if res.Alignment, err = conformance.AlignCases(l, net, conformance.Costs{}, o.MaxStates, keep); err != nil {
 		return nil, err
 	}
 	rep := conformance.Replay(l, net)

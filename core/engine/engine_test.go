@@ -216,6 +216,8 @@ func TestConformance(t *testing.T) {
 	require.Equal(t, "result", r.Kind, "%v", r.Payload)
 	c := r.Payload.(*ConformanceResult)
 	assert.Greater(t, c.Alignment.Fitness, 0.8)
+	assert.Positive(t, c.LeftOut, "running cases are left out by default")
+	assert.Equal(t, 325-c.LeftOut, c.Alignment.Cases)
 	assert.Greater(t, c.Alignment.Precision, 0.5)
 	assert.NotEmpty(t, c.Activities)
 	pnml, err := os.ReadFile("../petri/testdata/running-example.pnml")
