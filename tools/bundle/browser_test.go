@@ -378,12 +378,7 @@ func TestViews(t *testing.T) {
 	html := builtPage(t)
 	ctx, rl := browser(t)
 	require.NoError(t, chromedp.Do(ctx,
-		chromedp.Navigate("file://"+html),
-		chromedp.WaitVisible(chromedp.CSS(`body[data-engine="ready"]`)),
-		chromedp.Click(chromedp.CSS(`#demo-button`)),
-		chromedp.WaitVisible(chromedp.CSS(`#mapping`)),
-		chromedp.Click(chromedp.CSS(`#read-button`)),
-		chromedp.WaitVisible(chromedp.CSS(`#overview[data-ready="true"]`)),
+		openDemo(html),
 		chromedp.Click(chromedp.CSS(`#views [data-view="flowmap"]`)),
 		chromedp.WaitVisible(chromedp.CSS(`#fm-canvas[data-ready="true"] svg`)),
 		chromedp.Click(chromedp.CSS(`#fm-canvas .node[data-id="2"] rect`)),
@@ -428,12 +423,7 @@ func TestForecastView(t *testing.T) {
 	html := builtPage(t)
 	ctx, rl := browser(t)
 	require.NoError(t, chromedp.Do(ctx,
-		chromedp.Navigate("file://"+html),
-		chromedp.WaitVisible(chromedp.CSS(`body[data-engine="ready"]`)),
-		chromedp.Click(chromedp.CSS(`#demo-button`)),
-		chromedp.WaitVisible(chromedp.CSS(`#mapping`)),
-		chromedp.Click(chromedp.CSS(`#read-button`)),
-		chromedp.WaitVisible(chromedp.CSS(`#overview[data-ready="true"]`)),
+		openDemo(html),
 		chromedp.Click(chromedp.CSS(`#views [data-view="forecast"]`)),
 		chromedp.WaitVisible(chromedp.CSS(`#forecast[data-ready="true"] #fc-list tbody tr`)),
 		chromedp.SetValue(chromedp.CSS(`#fc-outcome-kind`), "ends"),
@@ -459,12 +449,7 @@ func TestConformanceView(t *testing.T) {
 	pnml, _ := filepath.Abs("../../core/petri/testdata/running-example.pnml")
 	ctx, rl := browser(t)
 	require.NoError(t, chromedp.Do(ctx,
-		chromedp.Navigate("file://"+html),
-		chromedp.WaitVisible(chromedp.CSS(`body[data-engine="ready"]`)),
-		chromedp.Click(chromedp.CSS(`#demo-button`)),
-		chromedp.WaitVisible(chromedp.CSS(`#mapping`)),
-		chromedp.Click(chromedp.CSS(`#read-button`)),
-		chromedp.WaitVisible(chromedp.CSS(`#overview[data-ready="true"]`)),
+		openDemo(html),
 		chromedp.Click(chromedp.CSS(`#views [data-view="conformance"]`)),
 		chromedp.WaitVisible(chromedp.CSS(`#conformance[data-ready="true"] [data-metric="fitness"]`)),
 	))
@@ -481,4 +466,16 @@ func TestConformanceView(t *testing.T) {
 	assert.Contains(t, notes, "Activities the model does not know")
 	assert.Empty(t, rl.outgoing("file://"+html))
 	assert.Empty(t, rl.failures)
+}
+
+// openDemo opens the page from disk and reads the embedded demo log to its overview.
+func openDemo(html string) chromedp.Action[chromedp.Void] {
+	return chromedp.Steps(
+		chromedp.Navigate("file://"+html),
+		chromedp.WaitVisible(chromedp.CSS(`body[data-engine="ready"]`)),
+		chromedp.Click(chromedp.CSS(`#demo-button`)),
+		chromedp.WaitVisible(chromedp.CSS(`#mapping`)),
+		chromedp.Click(chromedp.CSS(`#read-button`)),
+		chromedp.WaitVisible(chromedp.CSS(`#overview[data-ready="true"]`)),
+	)
 }
