@@ -82,11 +82,34 @@ func (q *queue) Pop() any {
 
 // Align finds an optimal alignment of trace on the net by A* over the synchronous product
 // (Adriansyah, van Dongen and van der Aalst, "Conformance checking using cost-based fitness
-// analysis", EDOC 2011). The heuristic counts the remaining events whose activity no transition
-// carries (each must be a log move): admissible, so the first goal popped is optimal. The
-// marking-equation heuristic of that paper (and its extension by van Dongen 2018) would explore
-// far fewer states; it is still to come. At most maxStates states are expanded.
+// analysis", EDOC 2011). The heuristic is ours and cheap: the remaining events no transition
+// carries must be log moves (u), and a model that needs d more visible steps to finish can match
+// at most r of the r remaining labelled events, so at least max(0, d − r) model moves remain:
+// h = u + max(0, d − r), admissible and consistent with unit costs (d comes from the net's
+// reachability graph, explored once; with custom costs, or a graph over the bound, d is left
+// out). The marking-equation heuristic of that paper (and its extension by van Dongen 2018)
+// would explore fewer states still; it is still to come. At most maxStates states are expanded.
 func Align(n *petri.Net, trace []string, costs Costs, maxStates int) (*Alignment, error) {
+	return newAligner(n, costs).align(trace, maxStates)
+}
+
+// aligner holds what every alignment on one net shares: the distances to the final marking.
+type aligner struct {
+	n     *petri.Net
+	costs Costs
+	dist  map[string]int
+}
+
+func newAligner(n *petri.Net, costs Costs) *aligner {
+	a := &aligner{n: n, costs: costs}
+	if n.Initial != nil && n.Final != nil {
+		a.dist = distanceToFinal(n, costs)
+	}
+	return a
+}
+
+func (al *aligner) align(trace []string, maxStates int) (*Alignment, error) {
+	n, costs := al.n, al.costs
 	if n.Initial == nil || n.Final == nil {
 		return nil, errors.New("the net needs an initial and a final marking")
 	}
@@ -96,16 +119,30 @@ func Align(n *petri.Net, trace []string, costs Costs, maxStates int) (*Alignment
 			labels[t.Label] = true
 		}
 	}
-	// h[i]: the cost of the events from i on that can only be log moves
-	h := make([]int, len(trace)+1)
+	// u[i]: the cost of the events from i on that can only be log moves; r[i]: how many of them
+	// have a label (at most that many model moves can be synchronous)
+	u := make([]int, len(trace)+1)
+	r := make([]int, len(trace)+1)
 	for i := len(trace) - 1; i >= 0; i-- {
-		h[i] = h[i+1]
-		if !labels[trace[i]] {
-			h[i] += costs.logCost(trace[i])
+		u[i], r[i] = u[i+1], r[i+1]
+		if labels[trace[i]] {
+			r[i]++
+		} else {
+			u[i] += costs.logCost(trace[i])
 		}
 	}
+	dist := al.dist
+	hOf := func(m petri.Marking, i int) int {
+		h := u[i]
+		if dist != nil {
+			if d, ok := dist[m.Key()]; ok && d > r[i] {
+				h += d - r[i]
+			}
+		}
+		return h
+	}
 	key := func(m petri.Marking, i int) string { return strconv.Itoa(i) + "|" + m.Key() }
-	nodes := []*searchNode{{m: n.Initial, i: 0, g: 0, f: h[0], parent: -1}}
+	nodes := []*searchNode{{m: n.Initial, i: 0, g: 0, f: hOf(n.Initial, 0), parent: -1}}
 	best := map[string]int{key(n.Initial, 0): 0}
 	closed := map[string]bool{}
 	q := &queue{}
@@ -119,7 +156,7 @@ func Align(n *petri.Net, trace []string, costs Costs, maxStates int) (*Alignment
 			return
 		}
 		best[k] = g
-		nd := &searchNode{m: m, i: i, g: g, f: g + h[i], parent: idOf[from], move: mv}
+		nd := &searchNode{m: m, i: i, g: g, f: g + hOf(m, i), parent: idOf[from], move: mv}
 		idOf[nd] = len(nodes)
 		nodes = append(nodes, nd)
 		heap.Push(q, nd)
@@ -132,14 +169,14 @@ func Align(n *petri.Net, trace []string, costs Costs, maxStates int) (*Alignment
 		}
 		closed[k] = true
 		if cur.i == len(trace) && cur.m.Equal(n.Final) {
-			al := &Alignment{Cost: cur.g, States: expanded}
+			res := &Alignment{Cost: cur.g, States: expanded}
 			for j := idOf[cur]; nodes[j].parent >= 0; j = nodes[j].parent {
-				al.Moves = append(al.Moves, nodes[j].move)
+				res.Moves = append(res.Moves, nodes[j].move)
 			}
-			for a, b := 0, len(al.Moves)-1; a < b; a, b = a+1, b-1 {
-				al.Moves[a], al.Moves[b] = al.Moves[b], al.Moves[a]
+			for a, b := 0, len(res.Moves)-1; a < b; a, b = a+1, b-1 {
+				res.Moves[a], res.Moves[b] = res.Moves[b], res.Moves[a]
 			}
-			return al, nil
+			return res, nil
 		}
 		expanded++
 		if expanded > maxStates {
@@ -171,7 +208,11 @@ func Align(n *petri.Net, trace []string, costs Costs, maxStates int) (*Alignment
 // ShortestRun is the cost of the cheapest run of the model from initial to final marking (model
 // moves only), the denominator's second term in alignment fitness.
 func ShortestRun(n *petri.Net, costs Costs, maxStates int) (int, error) {
-	al, err := Align(n, nil, costs, maxStates)
+	return newAligner(n, costs).shortestRun(maxStates)
+}
+
+func (a *aligner) shortestRun(maxStates int) (int, error) {
+	al, err := a.align(nil, maxStates)
 	if err != nil {
 		return 0, err
 	}
@@ -196,4 +237,62 @@ func (a *Alignment) TraceText() string {
 		}
 	}
 	return strings.Join(top, " ") + "\n" + strings.Join(bottom, " ")
+}
+
+// distanceToFinal gives, for every reachable marking, the fewest visible transitions to the final
+// marking (silent ones are free), by a backward 0-1 breadth-first search over the reachability
+// graph. It returns nil when costs are not the default or the graph is larger than its bound.
+func distanceToFinal(n *petri.Net, costs Costs) map[string]int {
+	if len(costs.Log) > 0 || len(costs.Model) > 0 {
+		return nil
+	}
+	rg, err := n.Explore(200000)
+	if err != nil || !rg.Complete {
+		return nil
+	}
+	pred := make([][]petri.Edge, len(rg.Markings))
+	final := -1
+	for i, es := range rg.Edges {
+		if rg.Markings[i].Equal(n.Final) {
+			final = i
+		}
+		for _, e := range es {
+			pred[e.To] = append(pred[e.To], petri.Edge{Transition: e.Transition, To: i})
+		}
+	}
+	if final < 0 {
+		return nil
+	}
+	const inf = 1 << 30
+	d := make([]int, len(rg.Markings))
+	for i := range d {
+		d[i] = inf
+	}
+	d[final] = 0
+	deque := []int{final}
+	for len(deque) > 0 {
+		x := deque[0]
+		deque = deque[1:]
+		for _, p := range pred[x] {
+			w := 1
+			if n.Transitions[p.Transition].Silent() {
+				w = 0
+			}
+			if d[x]+w < d[p.To] {
+				d[p.To] = d[x] + w
+				if w == 0 {
+					deque = append([]int{p.To}, deque...)
+				} else {
+					deque = append(deque, p.To)
+				}
+			}
+		}
+	}
+	out := make(map[string]int, len(d))
+	for i, v := range d {
+		if v < inf {
+			out[rg.Markings[i].Key()] = v
+		}
+	}
+	return out
 }

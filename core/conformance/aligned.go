@@ -45,7 +45,8 @@ func AlignLog(l *eventlog.Log, n *petri.Net, costs Costs, maxStates int) (*Resul
 // kept cases, and a variant with none is left out. Conformance of running cases is usually not
 // wanted: their missing ends would count as skipped steps.
 func AlignCases(l *eventlog.Log, n *petri.Net, costs Costs, maxStates int, keep func(c int) bool) (*Result, error) {
-	shortest, err := ShortestRun(n, costs, maxStates)
+	al0 := newAligner(n, costs)
+	shortest, err := al0.shortestRun(maxStates)
 	if err != nil {
 		return nil, err
 	}
@@ -70,7 +71,7 @@ func AlignCases(l *eventlog.Log, n *petri.Net, costs Costs, maxStates int, keep 
 		}
 		va := VariantAlignment{Trace: trace, Cases: cases}
 		res.Cases += va.Cases
-		al, err := Align(n, trace, costs, maxStates)
+		al, err := al0.align(trace, maxStates)
 		if err != nil {
 			if !errors.Is(err, ErrBound) {
 				return nil, err
