@@ -1,6 +1,7 @@
 package dfg
 
 import (
+	"cmp"
 	"slices"
 
 	"tracewright/core/eventlog"
@@ -61,15 +62,7 @@ func TopCases(l *eventlog.Log, opt Options, from, to int32, k int) []CaseRef {
 			out = append(out, CaseRef{Case: l.CaseID(c), Seconds: best})
 		}
 	}
-	slices.SortStableFunc(out, func(a, b CaseRef) int {
-		switch {
-		case a.Seconds > b.Seconds:
-			return -1
-		case a.Seconds < b.Seconds:
-			return 1
-		}
-		return 0
-	})
+	slices.SortStableFunc(out, func(a, b CaseRef) int { return cmp.Compare(b.Seconds, a.Seconds) })
 	if len(out) > k {
 		out = out[:k]
 	}

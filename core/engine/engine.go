@@ -690,12 +690,7 @@ func (e *Engine) conformance(raw json.RawMessage, f *File) (*ConformanceResult, 
 	var keep func(int) bool
 	if !o.Running {
 		part := predict.Split(l, predict.Options{})
-		running := map[int]bool{}
-		for _, c := range part.Running {
-			running[c] = true
-		}
-		res.LeftOut = len(running)
-		keep = func(c int) bool { return !running[c] }
+		res.LeftOut, keep = len(part.Running), part.NotRunning()
 	}
 	if res.Alignment, err = conformance.AlignCases(l, net, conformance.Costs{}, o.MaxStates, keep); err != nil {
 		return nil, err

@@ -1,6 +1,7 @@
 package intake
 
 import (
+	"cmp"
 	"errors"
 	"slices"
 	"strconv"
@@ -191,13 +192,7 @@ func guessRoles(cols []string, rows [][]string) ([]ColumnGuess, Mapping) {
 		}
 	}
 	slices.SortStableFunc(cands, func(a, b cand) int {
-		switch {
-		case a.score > b.score:
-			return -1
-		case a.score < b.score:
-			return 1
-		}
-		return a.col - b.col
+		return cmp.Or(cmp.Compare(b.score, a.score), a.col-b.col)
 	})
 	guesses := make([]ColumnGuess, len(cols))
 	for j, h := range cols {

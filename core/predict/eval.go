@@ -1,6 +1,7 @@
 package predict
 
 import (
+	"cmp"
 	"math"
 	"slices"
 	"time"
@@ -140,34 +141,47 @@ func Split(l *eventlog.Log, opt Options) Partition {
 		p.EndActivities = append(p.EndActivities, l.Activities.Name(a))
 	}
 	slices.Sort(p.EndActivities)
+	// one pass: completed cases give the longest pause; the others wait for the threshold
 	var maxGap int64
-	isDone := make([]bool, l.NumCases())
+	var open []int
+	lastTime := make([]int64, l.NumCases())
 	for c := 0; c < l.NumCases(); c++ {
 		acts, times := caseTimes(l, c)
-		if len(acts) > 0 && ends[acts[len(acts)-1]] {
-			isDone[c] = true
+		if len(acts) == 0 {
+			continue
+		}
+		if ends[acts[len(acts)-1]] {
+			p.Completed = append(p.Completed, c)
 			for i := 1; i < len(times); i++ {
 				maxGap = max(maxGap, times[i]-times[i-1])
 			}
+			continue
 		}
+		open = append(open, c)
+		lastTime[c] = times[len(times)-1]
 	}
 	p.Inactive = opt.Inactive
 	if p.Inactive == 0 {
 		p.Inactive = time.Duration(maxGap) * time.Microsecond
 	}
-	for c := 0; c < l.NumCases(); c++ {
-		_, times := caseTimes(l, c)
-		switch {
-		case len(times) == 0:
-		case isDone[c]:
-			p.Completed = append(p.Completed, c)
-		case time.Duration(opt.Export-times[len(times)-1])*time.Microsecond > p.Inactive:
+	for _, c := range open {
+		if time.Duration(opt.Export-lastTime[c])*time.Microsecond > p.Inactive {
 			p.Abandoned = append(p.Abandoned, c)
-		default:
+		} else {
 			p.Running = append(p.Running, c)
 		}
 	}
 	return p
+}
+
+// NotRunning accepts the cases that are not running (completed or abandoned): the filter
+// conformance checking uses, since a running case's missing end is no deviation.
+func (p Partition) NotRunning() func(c int) bool {
+	running := make(map[int]bool, len(p.Running))
+	for _, c := range p.Running {
+		running[c] = true
+	}
+	return func(c int) bool { return !running[c] }
 }
 
 // Evaluation is the measured error of the forecasts on a temporal hold-out: the model is fitted
@@ -426,15 +440,7 @@ func AUC(p []float64, y []bool) float64 {
 	for i := range p {
 		ps[i] = pair{p[i], y[i]}
 	}
-	slices.SortFunc(ps, func(a, b pair) int {
-		switch {
-		case a.p < b.p:
-			return -1
-		case a.p > b.p:
-			return 1
-		}
-		return 0
-	})
+	slices.SortFunc(ps, func(a, b pair) int { return cmp.Compare(a.p, b.p) })
 	// average ranks over ties
 	var pos, neg, rankSum float64
 	for i := 0; i < len(ps); {
@@ -496,14 +502,6 @@ func ForecastRunning(l *eventlog.Log, part Partition, opt Options) (*Model, []Ru
 			FinishHi:  timestamp.FormatRFC3339(last + int64(f.HighSeconds*1e6))}
 		out = append(out, rf)
 	}
-	slices.SortStableFunc(out, func(a, b RunningForecast) int {
-		switch {
-		case a.Finish < b.Finish:
-			return -1
-		case a.Finish > b.Finish:
-			return 1
-		}
-		return 0
-	})
+	slices.SortStableFunc(out, func(a, b RunningForecast) int { return cmp.Compare(a.Finish, b.Finish) })
 	return m, out, nil
 }

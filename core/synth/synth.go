@@ -1,6 +1,7 @@
 package synth
 
 import (
+	"cmp"
 	"math"
 	"math/rand/v2"
 	"slices"
@@ -289,7 +290,7 @@ func Generate(cfg Config) *Log {
 		if a.Case != b.Case {
 			return int(a.Case - b.Case)
 		}
-		return cmp64(*key(&a), *key(&b))
+		return cmp.Compare(*key(&a), *key(&b))
 	})
 	for i := 1; i < len(all); i++ {
 		if all[i].Case == all[i-1].Case && *key(&all[i]) <= *key(&all[i-1]) {
@@ -319,19 +320,9 @@ func Generate(cfg Config) *Log {
 		all[i].Case = ids[all[i].Case]
 	}
 	// Exports list events by time; the readers must not rely on it, so callers may shuffle.
-	slices.SortStableFunc(all, func(a, b Instance) int { return cmp64(a.End, b.End) })
+	slices.SortStableFunc(all, func(a, b Instance) int { return cmp.Compare(a.End, b.End) })
 	lg.Instances = all
 	return lg
-}
-
-func cmp64(a, b int64) int {
-	switch {
-	case a < b:
-		return -1
-	case a > b:
-		return 1
-	}
-	return 0
 }
 
 func caseID(n int) string {
@@ -352,7 +343,7 @@ func (g *gen) inject(ins []Instance) ([]Instance, []string) {
 		return slices.Delete(ins, i, i+1), []string{"missing"}
 	case k == 1 && len(ins) > 2:
 		// swap the times of two instances that follow each other in the case
-		slices.SortFunc(ins, func(a, b Instance) int { return cmp64(a.Start, b.Start) })
+		slices.SortFunc(ins, func(a, b Instance) int { return cmp.Compare(a.Start, b.Start) })
 		i := 1 + g.r.IntN(len(ins)-2)
 		a, b := ins[i], ins[i+1]
 		ins[i].Start, ins[i].End, ins[i+1].Start, ins[i+1].End = b.Start, b.Start+(a.End-a.Start), a.Start, a.Start+(b.End-b.Start)

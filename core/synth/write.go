@@ -2,6 +2,7 @@ package synth
 
 import (
 	"bufio"
+	"cmp"
 	"encoding/xml"
 	"io"
 	"math/rand/v2"
@@ -137,7 +138,7 @@ func (lg *Log) WriteXES(w io.Writer) error {
 			}
 			evs = append(evs, stamped{in, "complete", in.End, 2*k + 1})
 		}
-		slices.SortStableFunc(evs, func(a, b stamped) int { return cmp64(a.t, b.t) })
+		slices.SortStableFunc(evs, func(a, b stamped) int { return cmp.Compare(a.t, b.t) })
 		for _, e := range evs {
 			ev(e.in, e.life, e.t)
 		}

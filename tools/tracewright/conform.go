@@ -58,12 +58,8 @@ func conformCommand(ctx context.Context, args []string, stdout io.Writer) error 
 	var keep func(int) bool
 	leftOut := 0
 	if !*withRunning {
-		running := map[int]bool{}
-		for _, c := range predict.Split(l, predict.Options{}).Running {
-			running[c] = true
-		}
-		leftOut = len(running)
-		keep = func(c int) bool { return !running[c] }
+		part := predict.Split(l, predict.Options{})
+		leftOut, keep = len(part.Running), part.NotRunning()
 	}
 	al, err := conformance.AlignCases(l, net, conformance.Costs{}, *bound, keep)
 	if err != nil {
