@@ -1,11 +1,13 @@
 package conformance
 
 import (
-	"container/heap"
+	"bytes"
 	"errors"
 	"fmt"
-	"strconv"
+	"math"
+	"slices"
 	"strings"
+	"time"
 
 	"tracewright/core/petri"
 )
@@ -25,7 +27,21 @@ type Move struct {
 // per activity; synchronous and silent moves cost 0 (the standard cost function of Adriansyah et
 // al. 2011).
 type Costs struct {
-	Log, Model map[string]int
+	Log   map[string]int `json:"log,omitempty"`
+	Model map[string]int `json:"model,omitempty"`
+}
+
+// Check refuses costs below 0 or above 1000 (a cost of 0 makes a move free; far larger ones only
+// slow the search without changing which moves are chosen over unit ones).
+func (c Costs) Check() error {
+	for kind, m := range map[string]map[string]int{"log": c.Log, "model": c.Model} {
+		for a, v := range m {
+			if v < 0 || v > 1000 {
+				return fmt.Errorf("the %s-move cost of %q is %d: costs run from 0 to 1000", kind, a, v)
+			}
+		}
+	}
+	return nil
 }
 
 func (c Costs) logCost(a string) int {
@@ -53,166 +69,458 @@ type Alignment struct {
 	States int    `json:"states_explored"`
 }
 
-type searchNode struct {
-	m      petri.Marking
-	i      int // events of the trace consumed
-	g, f   int
-	parent int
-	move   Move
-	index  int
-}
-
-type queue []*searchNode
-
-func (q queue) Len() int { return len(q) }
-func (q queue) Less(a, b int) bool {
-	if q[a].f != q[b].f {
-		return q[a].f < q[b].f
-	}
-	return q[a].i > q[b].i // deeper in the trace first: fewer ties to expand
-}
-func (q queue) Swap(a, b int) { q[a], q[b] = q[b], q[a]; q[a].index = a; q[b].index = b }
-func (q *queue) Push(x any)   { n := x.(*searchNode); n.index = len(*q); *q = append(*q, n) }
-func (q *queue) Pop() any {
-	old := *q
-	n := old[len(old)-1]
-	*q = old[:len(old)-1]
-	return n
+// Bound limits the work spent on one trace: at most States expanded search states and, when Time
+// is above zero, at most that long. A trace over the bound is reported as not aligned (ErrBound).
+type Bound struct {
+	States int
+	Time   time.Duration
 }
 
 // Align finds an optimal alignment of trace on the net by A* over the synchronous product
 // (Adriansyah, van Dongen and van der Aalst, "Conformance checking using cost-based fitness
-// analysis", EDOC 2011). The heuristic is ours and cheap: the remaining events no transition
-// carries must be log moves (u), and a model that needs d more visible steps to finish can match
-// at most r of the r remaining labelled events, so at least max(0, d − r) model moves remain:
-// h = u + max(0, d − r), admissible and consistent with unit costs (d comes from the net's
-// reachability graph, explored once; with custom costs, or a graph over the bound, d is left
-// out). The marking-equation heuristic of that paper (and its extension by van Dongen 2018)
-// would explore fewer states still; it is still to come. At most maxStates states are expanded.
-func Align(n *petri.Net, trace []string, costs Costs, maxStates int) (*Alignment, error) {
-	return newAligner(n, costs).align(trace, maxStates)
-}
-
-// aligner holds what every alignment on one net shares: the distances to the final marking.
-type aligner struct {
-	n     *petri.Net
-	costs Costs
-	dist  map[string]int
-}
-
-func newAligner(n *petri.Net, costs Costs) *aligner {
-	a := &aligner{n: n, costs: costs}
-	if n.Initial != nil && n.Final != nil {
-		a.dist = distanceToFinal(n, costs)
+// analysis", EDOC 2011), with the marking-equation heuristic of that paper: from a state (marking
+// m, events from i on still to explain), the cheapest solution x ≥ 0 of the linear program
+//
+//	m + C·(z + s) = final,  Σ_{λ(t)=a} s_t + w_a = n_a for every label a,
+//	cost = Σ_t c_model(t)·z_t + Σ_a c_log(a)·w_a
+//
+// (z_t: model moves of t, s_t: synchronous moves of t, w_a: log moves of label a, n_a: the
+// remaining events with label a; C the incidence matrix), rounded up, plus the cost of the
+// remaining events no transition carries, is a lower bound on the remaining cost: admissible and
+// consistent. The program relaxes the product net's own marking equation only by merging the
+// events of one label, which the relaxation cannot tell apart anyway.
+//
+// The solution is reused as the paper does: a move whose variable is at least 1 in the parent's
+// solution leaves a solution for the child (that variable less 1) whose cost is exactly the
+// parent's less the move's cost, so the child's bound is known without solving. Other children
+// get the parent's bound less the move's cost (a lower bound, because the heuristic is consistent)
+// and are solved only when they come first in the queue; if the bound then rises, they are queued
+// again (the lazy evaluation of van Dongen, "Efficiently computing alignments", BPM 2018). The
+// programs are solved by our dual simplex (lp.go), warm-started from the previous basis.
+//
+// Cost: each expanded state costs O(|T|·|P|) for its successors and, when solved, O(m²) plus
+// O(m² + |T|) per pivot with m = |P| + |labels|. Memory is O(|P|) per state reached.
+func Align(n *petri.Net, trace []string, costs Costs, bound Bound) (*Alignment, error) {
+	al, err := newAligner(n, costs)
+	if err != nil {
+		return nil, err
 	}
-	return a
+	return al.align(trace, bound)
 }
 
-func (al *aligner) align(trace []string, maxStates int) (*Alignment, error) {
-	n, costs := al.n, al.costs
+// aligner holds what every alignment on one net shares: the net as index lists, the labels,
+// and the marking-equation program with its warm basis. It is not safe for concurrent use.
+type aligner struct {
+	n              *petri.Net
+	costs          Costs
+	places         int
+	need           [][]placeCount // per transition: input places with how many tokens
+	delta          [][]placeCount // per transition: the change it makes to each place it touches
+	label          []int32        // per transition: its label's number, −1 if silent
+	labelOf        map[string]int32
+	modelCost      []int // per transition
+	logCost        []int // per label
+	initial, final []uint8
+	prog           *lp
+	keep           []int // the program's rows (places, then labels) that stayed
+	colZ, colS     []int // per transition; colS is −1 for silent ones
+	colW           []int // per label
+	rhs            []float64
+}
+
+type placeCount struct {
+	p int32
+	k int32
+}
+
+func newAligner(n *petri.Net, costs Costs) (*aligner, error) {
 	if n.Initial == nil || n.Final == nil {
 		return nil, errors.New("the net needs an initial and a final marking")
 	}
-	labels := map[string]bool{}
-	for _, t := range n.Transitions {
-		if !t.Silent() {
-			labels[t.Label] = true
+	P := len(n.Places)
+	a := &aligner{n: n, costs: costs, places: P, labelOf: map[string]int32{}}
+	a.initial, a.final = make([]uint8, P), make([]uint8, P)
+	for p := 0; p < P; p++ {
+		if n.Initial[p] > 255 || n.Final[p] > 255 || n.Initial[p] < 0 || n.Final[p] < 0 {
+			return nil, fmt.Errorf("place %s holds more than 255 tokens", n.Places[p].ID)
 		}
+		a.initial[p], a.final[p] = uint8(n.Initial[p]), uint8(n.Final[p])
 	}
-	// u[i]: the cost of the events from i on that can only be log moves; r[i]: how many of them
-	// have a label (at most that many model moves can be synchronous)
-	u := make([]int, len(trace)+1)
-	r := make([]int, len(trace)+1)
-	for i := len(trace) - 1; i >= 0; i-- {
-		u[i], r[i] = u[i+1], r[i+1]
-		if labels[trace[i]] {
-			r[i]++
-		} else {
-			u[i] += costs.logCost(trace[i])
+	var cols [][]lpEntry
+	var c []float64
+	for _, tr := range n.Transitions {
+		counts := map[int]int{}
+		for _, p := range tr.In {
+			counts[p]--
 		}
-	}
-	dist := al.dist
-	hOf := func(m petri.Marking, i int) int {
-		h := u[i]
-		if dist != nil {
-			if d, ok := dist[m.Key()]; ok && d > r[i] {
-				h += d - r[i]
+		var need, delta []placeCount
+		for _, p := range tr.In {
+			if counts[p] < 0 && !slices.ContainsFunc(need, func(x placeCount) bool { return int(x.p) == p }) {
+				need = append(need, placeCount{int32(p), int32(-counts[p])})
 			}
 		}
-		return h
-	}
-	key := func(m petri.Marking, i int) string { return strconv.Itoa(i) + "|" + m.Key() }
-	nodes := []*searchNode{{m: n.Initial, i: 0, g: 0, f: hOf(n.Initial, 0), parent: -1}}
-	best := map[string]int{key(n.Initial, 0): 0}
-	closed := map[string]bool{}
-	q := &queue{}
-	heap.Push(q, nodes[0])
-	idOf := map[*searchNode]int{nodes[0]: 0}
-	expanded := 0
-	push := func(from *searchNode, m petri.Marking, i, cost int, mv Move) {
-		g := from.g + cost
-		k := key(m, i)
-		if old, ok := best[k]; ok && old <= g {
-			return
+		for _, p := range tr.Out {
+			counts[p]++
 		}
-		best[k] = g
-		nd := &searchNode{m: m, i: i, g: g, f: g + hOf(m, i), parent: idOf[from], move: mv}
-		idOf[nd] = len(nodes)
-		nodes = append(nodes, nd)
-		heap.Push(q, nd)
-	}
-	for q.Len() > 0 {
-		cur := heap.Pop(q).(*searchNode)
-		k := key(cur.m, cur.i)
-		if closed[k] {
+		var col []lpEntry
+		for p := 0; p < P; p++ {
+			if v := counts[p]; v != 0 {
+				delta = append(delta, placeCount{int32(p), int32(v)})
+				col = append(col, lpEntry{p, float64(v)})
+			}
+		}
+		a.need, a.delta = append(a.need, need), append(a.delta, delta)
+		a.colZ = append(a.colZ, len(cols))
+		cols = append(cols, col)
+		if tr.Silent() {
+			a.label = append(a.label, -1)
+			a.modelCost = append(a.modelCost, 0)
+			c = append(c, 0)
 			continue
 		}
-		closed[k] = true
-		if cur.i == len(trace) && cur.m.Equal(n.Final) {
-			res := &Alignment{Cost: cur.g, States: expanded}
-			for j := idOf[cur]; nodes[j].parent >= 0; j = nodes[j].parent {
-				res.Moves = append(res.Moves, nodes[j].move)
-			}
-			for a, b := 0, len(res.Moves)-1; a < b; a, b = a+1, b-1 {
-				res.Moves[a], res.Moves[b] = res.Moves[b], res.Moves[a]
-			}
-			return res, nil
+		id, ok := a.labelOf[tr.Label]
+		if !ok {
+			id = int32(len(a.logCost))
+			a.labelOf[tr.Label] = id
+			a.logCost = append(a.logCost, costs.logCost(tr.Label))
 		}
+		a.label = append(a.label, id)
+		a.modelCost = append(a.modelCost, costs.modelCost(tr.Label))
+		c = append(c, float64(costs.modelCost(tr.Label)))
+	}
+	// synchronous columns: the transition's effect plus one event of its label
+	for t := range n.Transitions {
+		a.colS = append(a.colS, -1)
+		if a.label[t] < 0 {
+			continue
+		}
+		a.colS[t] = len(cols)
+		col := append(slices.Clone(cols[a.colZ[t]]), lpEntry{P + int(a.label[t]), 1})
+		cols = append(cols, col)
+		c = append(c, 0)
+	}
+	for l := range a.logCost {
+		a.colW = append(a.colW, len(cols))
+		cols = append(cols, []lpEntry{{P + l, 1}})
+		c = append(c, float64(a.logCost[l]))
+	}
+	a.prog, a.keep = newLP(P+len(a.logCost), cols, c)
+	a.rhs = make([]float64, P+len(a.logCost))
+	return a, nil
+}
+
+// searchNode is one state of the synchronous product reached by the search: a marking (kept in
+// the search's pool at the node's index) and the number of events explained.
+type searchNode struct {
+	g, h   int32
+	i      int32
+	parent int32
+	kind   uint8 // moveLog, moveModel, moveSync; 0 for the start
+	exact  bool  // h is the program's own value, not a bound inherited from the parent
+	closed bool
+	t      int32     // the transition of a model or synchronous move
+	sol    []lpEntry // the program's solution (column, value) when known, for reuse
+}
+
+const (
+	moveLog = iota + 1
+	moveModel
+	moveSync
+)
+
+// queueEntry is a node in the priority queue with the f it was queued with; an entry whose node
+// has since been closed or requeued with another f is stale and passed over.
+type queueEntry struct {
+	f, i, g int32
+	node    int32
+}
+
+// before orders the queue: lowest f first; among equals the state deeper in the trace, then the
+// one with more cost behind it (closer to a goal), which keeps ties from being explored widely.
+func (e queueEntry) before(o queueEntry) bool {
+	if e.f != o.f {
+		return e.f < o.f
+	}
+	if e.i != o.i {
+		return e.i > o.i
+	}
+	return e.g > o.g
+}
+
+type search struct {
+	a      *aligner
+	names  []string
+	trace  []int32 // each event's label number, −1 for activities no transition carries
+	cost   []int32 // each event's log-move cost
+	u      []int32 // u[i]: the cost of the events from i on that no transition carries
+	nodes  []searchNode
+	marks  []uint8
+	index  map[string]int32
+	key    []byte
+	heap   []queueEntry
+	solves int
+}
+
+func (al *aligner) align(trace []string, bound Bound) (*Alignment, error) {
+	a := al
+	s := &search{a: a, names: trace, index: map[string]int32{}}
+	s.trace = make([]int32, len(trace))
+	s.cost = make([]int32, len(trace))
+	s.u = make([]int32, len(trace)+1)
+	for i := len(trace) - 1; i >= 0; i-- {
+		s.cost[i] = int32(a.costs.logCost(trace[i]))
+		s.u[i] = s.u[i+1]
+		if id, ok := a.labelOf[trace[i]]; ok {
+			s.trace[i] = id
+		} else {
+			s.trace[i] = -1
+			s.u[i] += s.cost[i]
+		}
+	}
+	var deadline time.Time
+	if bound.Time > 0 {
+		deadline = time.Now().Add(bound.Time)
+	}
+	P := a.places
+	s.add(-1, a.initial, 0, 0, s.u[0], false, nil, 0, 0)
+	expanded := 0
+	next := make([]uint8, P)
+	for len(s.heap) > 0 {
+		e := s.pop()
+		k := e.node
+		nd := &s.nodes[k]
+		if nd.closed || e.f != nd.g+nd.h {
+			continue
+		}
+		mk := s.marks[int(k)*P : int(k+1)*P]
+		if int(nd.i) == len(trace) && bytes.Equal(mk, a.final) {
+			return s.result(k, expanded), nil
+		}
+		if !nd.exact {
+			h, sol, ok := s.bound(mk, int(nd.i))
+			if math.IsInf(h, 1) {
+				nd.closed = true // the final marking cannot be reached from here
+				continue
+			}
+			nd.exact = true
+			if ok {
+				hv := s.u[nd.i] + int32(math.Ceil(h-1e-6))
+				nd.sol = sol
+				if hv > nd.h {
+					nd.h = hv
+					s.push(k)
+					continue
+				}
+			}
+		}
+		nd.closed = true
 		expanded++
-		if expanded > maxStates {
-			return nil, fmt.Errorf("%w (%d states)", ErrBound, maxStates)
+		if expanded > bound.States {
+			return nil, fmt.Errorf("%w (%d states)", ErrBound, bound.States)
 		}
-		if cur.i < len(trace) {
-			a := trace[cur.i]
-			push(cur, cur.m, cur.i+1, costs.logCost(a), Move{Kind: "log", Activity: a, Cost: costs.logCost(a)})
+		if !deadline.IsZero() && expanded%256 == 0 && time.Now().After(deadline) {
+			return nil, fmt.Errorf("%w (%v)", ErrBound, bound.Time)
 		}
-		for t, tr := range n.Transitions {
-			if !n.Enabled(cur.m, t) {
+		g, h, i, sol := nd.g, nd.h, int(nd.i), nd.sol
+		if i < len(trace) {
+			c := s.cost[i]
+			if l := s.trace[i]; l < 0 {
+				s.add(k, mk, i+1, g+c, h-c, sol != nil, sol, moveLog, -1)
+			} else {
+				col := a.colW[l]
+				child, ok := reuse(sol, col)
+				s.add(k, mk, i+1, g+c, h-c, ok, child, moveLog, -1)
+			}
+		}
+		for t := range a.need {
+			if !enabled(mk, a.need[t]) {
 				continue
 			}
-			next := n.Fire(cur.m, t)
-			if tr.Silent() {
-				push(cur, next, cur.i, 0, Move{Kind: "model", Transition: tr.ID, Silent: true})
-				continue
+			copy(next, mk)
+			for _, d := range a.delta[t] {
+				v := int(next[d.p]) + int(d.k)
+				if v > 255 {
+					return nil, fmt.Errorf("place %s holds more than 255 tokens: the net is not bounded", a.n.Places[d.p].ID)
+				}
+				next[d.p] = uint8(v)
 			}
-			c := costs.modelCost(tr.Label)
-			push(cur, next, cur.i, c, Move{Kind: "model", Activity: tr.Label, Transition: tr.ID, Cost: c})
-			if cur.i < len(trace) && trace[cur.i] == tr.Label {
-				push(cur, next, cur.i+1, 0, Move{Kind: "sync", Activity: tr.Label, Transition: tr.ID})
+			c := int32(a.modelCost[t])
+			child, ok := reuse(sol, a.colZ[t])
+			s.add(k, next, i, g+c, h-c, ok, child, moveModel, int32(t))
+			if i < len(trace) && a.label[t] >= 0 && a.label[t] == s.trace[i] {
+				child, ok := reuse(sol, a.colS[t])
+				s.add(k, next, i+1, g, h, ok, child, moveSync, int32(t))
 			}
 		}
 	}
 	return nil, errors.New("the final marking cannot be reached: the net is not a sound workflow net")
 }
 
-// ShortestRun is the cost of the cheapest run of the model from initial to final marking (model
-// moves only), the denominator's second term in alignment fitness.
-func ShortestRun(n *petri.Net, costs Costs, maxStates int) (int, error) {
-	return newAligner(n, costs).shortestRun(maxStates)
+func enabled(m []uint8, need []placeCount) bool {
+	for _, x := range need {
+		if int32(m[x.p]) < x.k {
+			return false
+		}
+	}
+	return true
 }
 
-func (a *aligner) shortestRun(maxStates int) (int, error) {
-	al, err := a.align(nil, maxStates)
+// reuse returns the parent's solution with one less of column col, if the solution has it.
+func reuse(sol []lpEntry, col int) ([]lpEntry, bool) {
+	for k, e := range sol {
+		if e.i == col {
+			if e.v < 1-1e-6 {
+				return nil, false
+			}
+			out := slices.Clone(sol)
+			if out[k].v -= 1; out[k].v < 1e-6 {
+				out = slices.Delete(out, k, k+1)
+			}
+			return out, true
+		}
+	}
+	return nil, false
+}
+
+// add reaches state (m, i) from node parent with cost g. h is the bound the parent passes on
+// (exact when exact is true, with sol the solution behind it), never below u[i].
+func (s *search) add(parent int32, m []uint8, i int, g, h int32, exact bool, sol []lpEntry, kind uint8, t int32) {
+	h = max(h, s.u[i])
+	s.key = append(append(s.key[:0], m...), byte(i), byte(i>>8), byte(i>>16))
+	if k, ok := s.index[string(s.key)]; ok {
+		nd := &s.nodes[k]
+		if nd.closed || nd.g <= g {
+			return
+		}
+		nd.g, nd.parent, nd.kind, nd.t = g, parent, kind, t
+		if !nd.exact && (exact || h > nd.h) {
+			nd.h, nd.exact, nd.sol = max(h, nd.h), exact, sol
+		}
+		s.push(k)
+		return
+	}
+	k := int32(len(s.nodes))
+	s.index[string(s.key)] = k
+	s.marks = append(s.marks, m...)
+	s.nodes = append(s.nodes, searchNode{g: g, h: h, i: int32(i), parent: parent, kind: kind, exact: exact, t: t, sol: sol})
+	s.push(k)
+}
+
+// bound solves the marking equation for marking m with the events from i on still to explain.
+// ok is false when the solver gave up (the caller keeps the bound it has).
+func (s *search) bound(m []uint8, i int) (float64, []lpEntry, bool) {
+	a := s.a
+	P := a.places
+	rhs := a.rhs
+	clear(rhs)
+	for p := 0; p < P; p++ {
+		rhs[p] = float64(int(a.final[p]) - int(m[p]))
+	}
+	for _, l := range s.trace[i:] {
+		if l >= 0 {
+			rhs[P+int(l)]++
+		}
+	}
+	b := make([]float64, len(a.keep))
+	for k, r := range a.keep {
+		b[k] = rhs[r]
+	}
+	s.solves++
+	v := a.prog.solve(b)
+	if math.IsInf(v, -1) {
+		return 0, nil, false
+	}
+	if math.IsInf(v, 1) {
+		return v, nil, false
+	}
+	var sol []lpEntry
+	for r, j := range a.prog.basic {
+		if x := a.prog.x[r]; j < a.prog.n && x > 1e-6 {
+			sol = append(sol, lpEntry{j, x})
+		}
+	}
+	return v, sol, true
+}
+
+func (s *search) push(k int32) {
+	nd := &s.nodes[k]
+	e := queueEntry{f: nd.g + nd.h, i: nd.i, g: nd.g, node: k}
+	s.heap = append(s.heap, e)
+	j := len(s.heap) - 1
+	for j > 0 {
+		p := (j - 1) / 2
+		if !s.heap[j].before(s.heap[p]) {
+			break
+		}
+		s.heap[j], s.heap[p] = s.heap[p], s.heap[j]
+		j = p
+	}
+}
+
+func (s *search) pop() queueEntry {
+	h := s.heap
+	top := h[0]
+	last := len(h) - 1
+	h[0] = h[last]
+	h = h[:last]
+	j := 0
+	for {
+		l := 2*j + 1
+		if l >= len(h) {
+			break
+		}
+		if r := l + 1; r < len(h) && h[r].before(h[l]) {
+			l = r
+		}
+		if !h[l].before(h[j]) {
+			break
+		}
+		h[j], h[l] = h[l], h[j]
+		j = l
+	}
+	s.heap = h
+	return top
+}
+
+// result walks back from the goal node to the start.
+func (s *search) result(goal int32, expanded int) *Alignment {
+	a := s.a
+	res := &Alignment{Cost: int(s.nodes[goal].g), States: expanded}
+	for k := goal; s.nodes[k].parent >= 0; k = s.nodes[k].parent {
+		nd := s.nodes[k]
+		var mv Move
+		switch nd.kind {
+		case moveLog:
+			mv = Move{Kind: "log", Activity: s.names[s.nodes[nd.parent].i], Cost: int(s.cost[s.nodes[nd.parent].i])}
+		case moveSync:
+			tr := a.n.Transitions[nd.t]
+			mv = Move{Kind: "sync", Activity: tr.Label, Transition: tr.ID}
+		default:
+			tr := a.n.Transitions[nd.t]
+			if tr.Silent() {
+				mv = Move{Kind: "model", Transition: tr.ID, Silent: true}
+			} else {
+				mv = Move{Kind: "model", Activity: tr.Label, Transition: tr.ID, Cost: a.modelCost[nd.t]}
+			}
+		}
+		res.Moves = append(res.Moves, mv)
+	}
+	slices.Reverse(res.Moves)
+	return res
+}
+
+// ShortestRun is the cost of the cheapest run of the model from initial to final marking (model
+// moves only), the denominator's second term in alignment fitness.
+func ShortestRun(n *petri.Net, costs Costs, bound Bound) (int, error) {
+	al, err := newAligner(n, costs)
+	if err != nil {
+		return 0, err
+	}
+	return al.shortestRun(bound)
+}
+
+func (a *aligner) shortestRun(bound Bound) (int, error) {
+	al, err := a.align(nil, bound)
 	if err != nil {
 		return 0, err
 	}
@@ -237,62 +545,4 @@ func (a *Alignment) TraceText() string {
 		}
 	}
 	return strings.Join(top, " ") + "\n" + strings.Join(bottom, " ")
-}
-
-// distanceToFinal gives, for every reachable marking, the fewest visible transitions to the final
-// marking (silent ones are free), by a backward 0-1 breadth-first search over the reachability
-// graph. It returns nil when costs are not the default or the graph is larger than its bound.
-func distanceToFinal(n *petri.Net, costs Costs) map[string]int {
-	if len(costs.Log) > 0 || len(costs.Model) > 0 {
-		return nil
-	}
-	rg, err := n.Explore(200000)
-	if err != nil || !rg.Complete {
-		return nil
-	}
-	pred := make([][]petri.Edge, len(rg.Markings))
-	final := -1
-	for i, es := range rg.Edges {
-		if rg.Markings[i].Equal(n.Final) {
-			final = i
-		}
-		for _, e := range es {
-			pred[e.To] = append(pred[e.To], petri.Edge{Transition: e.Transition, To: i})
-		}
-	}
-	if final < 0 {
-		return nil
-	}
-	const inf = 1 << 30
-	d := make([]int, len(rg.Markings))
-	for i := range d {
-		d[i] = inf
-	}
-	d[final] = 0
-	deque := []int{final}
-	for len(deque) > 0 {
-		x := deque[0]
-		deque = deque[1:]
-		for _, p := range pred[x] {
-			w := 1
-			if n.Transitions[p.Transition].Silent() {
-				w = 0
-			}
-			if d[x]+w < d[p.To] {
-				d[p.To] = d[x] + w
-				if w == 0 {
-					deque = append([]int{p.To}, deque...)
-				} else {
-					deque = append(deque, p.To)
-				}
-			}
-		}
-	}
-	out := make(map[string]int, len(d))
-	for i, v := range d {
-		if v < inf {
-			out[rg.Markings[i].Key()] = v
-		}
-	}
-	return out
 }

@@ -2,8 +2,11 @@ package conformance
 
 import (
 	"errors"
+	"runtime"
 	"sort"
 	"strings"
+	"sync"
+	"sync/atomic"
 
 	"tracewright/core/eventlog"
 	"tracewright/core/petri"
@@ -20,6 +23,7 @@ type VariantAlignment struct {
 	Aligned   bool     `json:"aligned"`
 	Reason    string   `json:"reason,omitempty"`
 	alignment *Alignment
+	variant   *eventlog.Variant
 }
 
 // Result is the alignment of a whole log.
@@ -33,26 +37,31 @@ type Result struct {
 	Cases        int                `json:"cases"`
 }
 
-// AlignLog aligns every variant once (at most maxStates expanded states each) and computes the
-// log's alignment-based fitness, 1 − Σ cost / Σ (cost of all log moves + cost of the shortest
-// model run), over cases (so not the mean of the traces' fitness), and escaping-edges precision.
+// AlignLog aligns every variant once (each within the bound) and computes the log's
+// alignment-based fitness, 1 − Σ cost / Σ (cost of all log moves + cost of the shortest model
+// run), over cases (so not the mean of the traces' fitness), and escaping-edges precision.
 // Variants over the bound are reported as not aligned and left out of both figures.
-func AlignLog(l *eventlog.Log, n *petri.Net, costs Costs, maxStates int) (*Result, error) {
-	return AlignCases(l, n, costs, maxStates, nil)
+func AlignLog(l *eventlog.Log, n *petri.Net, costs Costs, bound Bound) (*Result, error) {
+	return AlignCases(l, n, costs, bound, nil)
 }
 
 // AlignCases is AlignLog over the cases keep accepts (nil keeps all): a variant counts only its
 // kept cases, and a variant with none is left out. Conformance of running cases is usually not
 // wanted: their missing ends would count as skipped steps.
-func AlignCases(l *eventlog.Log, n *petri.Net, costs Costs, maxStates int, keep func(c int) bool) (*Result, error) {
-	al0 := newAligner(n, costs)
-	shortest, err := al0.shortestRun(maxStates)
+//
+// Variants are aligned on as many goroutines as GOMAXPROCS allows, each with its own aligner
+// (the warm-started program is not shared); the result does not depend on their number.
+func AlignCases(l *eventlog.Log, n *petri.Net, costs Costs, bound Bound, keep func(c int) bool) (*Result, error) {
+	al0, err := newAligner(n, costs)
+	if err != nil {
+		return nil, err
+	}
+	shortest, err := al0.shortestRun(bound)
 	if err != nil {
 		return nil, err
 	}
 	res := &Result{ShortestRun: shortest}
-	var num, den float64
-	for _, v := range l.Variants {
+	for vi, v := range l.Variants {
 		cases := len(v.Cases)
 		if keep != nil {
 			cases = 0
@@ -69,20 +78,46 @@ func AlignCases(l *eventlog.Log, n *petri.Net, costs Costs, maxStates int, keep 
 		for _, a := range v.Activities {
 			trace = append(trace, l.Activities.Name(a))
 		}
-		va := VariantAlignment{Trace: trace, Cases: cases}
-		res.Cases += va.Cases
-		al, err := al0.align(trace, maxStates)
-		if err != nil {
+		res.Variants = append(res.Variants, VariantAlignment{Trace: trace, Cases: cases, variant: &l.Variants[vi]})
+		res.Cases += cases
+	}
+	alignments := make([]*Alignment, len(res.Variants))
+	errs := make([]error, len(res.Variants))
+	workers := min(runtime.GOMAXPROCS(0), len(res.Variants))
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for w := 0; w < workers; w++ {
+		al := al0
+		if w > 0 {
+			al, _ = newAligner(n, costs) // cannot fail: al0 was built from the same net
+		}
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for {
+				k := int(next.Add(1) - 1)
+				if k >= len(res.Variants) {
+					return
+				}
+				alignments[k], errs[k] = al.align(res.Variants[k].Trace, bound)
+			}
+		}()
+	}
+	wg.Wait()
+	var num, den float64
+	for k := range res.Variants {
+		va := &res.Variants[k]
+		if err := errs[k]; err != nil {
 			if !errors.Is(err, ErrBound) {
 				return nil, err
 			}
 			va.Reason = err.Error()
 			res.NotAligned++
-			res.Variants = append(res.Variants, va)
 			continue
 		}
+		al := alignments[k]
 		logMoves := 0
-		for _, a := range trace {
+		for _, a := range va.Trace {
 			logMoves += costs.logCost(a)
 		}
 		va.Aligned, va.Cost, va.Moves, va.States, va.alignment = true, al.Cost, al.Moves, al.States, al
@@ -92,7 +127,6 @@ func AlignCases(l *eventlog.Log, n *petri.Net, costs Costs, maxStates int, keep 
 		}
 		num += float64(va.Cases * al.Cost)
 		den += float64(va.Cases * (logMoves + shortest))
-		res.Variants = append(res.Variants, va)
 	}
 	if den > 0 {
 		res.Fitness = 1 - num/den

@@ -18,6 +18,7 @@ package conformance
 
 import (
 	"slices"
+	"strconv"
 
 	"tracewright/core/eventlog"
 	"tracewright/core/petri"
@@ -111,12 +112,13 @@ func Replay(l *eventlog.Log, n *petri.Net) ReplayResult {
 			byLabel[tr.Label] = append(byLabel[tr.Label], t)
 		}
 	}
+	cones := &silentCones{}
 	for _, v := range l.Variants {
 		var trace []string
 		for _, a := range v.Activities {
 			trace = append(trace, l.Activities.Name(a))
 		}
-		tok, unplayed := ReplayTrace(n, byLabel, trace)
+		tok, unplayed := replayTrace(n, byLabel, trace, cones)
 		res.Variants = append(res.Variants, VariantReplay{Trace: trace, Cases: len(v.Cases), Tokens: tok, Fitness: tok.Fitness(), Unplayed: unplayed})
 		res.Tokens.add(tok, len(v.Cases))
 	}
@@ -135,6 +137,10 @@ func ReplayTrace(n *petri.Net, byLabel map[string][]int, trace []string) (Tokens
 			}
 		}
 	}
+	return replayTrace(n, byLabel, trace, &silentCones{})
+}
+
+func replayTrace(n *petri.Net, byLabel map[string][]int, trace []string, cones *silentCones) (Tokens, int) {
 	var tok Tokens
 	m := slices.Clone(n.Initial)
 	for _, k := range m {
@@ -158,7 +164,7 @@ func ReplayTrace(n *petri.Net, byLabel map[string][]int, trace []string) (Tokens
 		}
 		if t < 0 {
 			for _, c := range ts {
-				if seq, ok := silentPath(n, m, func(x petri.Marking) bool { return n.Enabled(x, c) }); ok {
+				if seq, ok := cones.path(n, m, c); ok {
 					for _, s := range seq {
 						m = fire(n, m, s, &tok)
 					}
@@ -190,7 +196,7 @@ func ReplayTrace(n *petri.Net, byLabel map[string][]int, trace []string) (Tokens
 	}
 	// let silent transitions reach the final marking if they can
 	if n.Final != nil && !m.Equal(n.Final) {
-		if seq, ok := silentPath(n, m, func(x petri.Marking) bool { return x.Equal(n.Final) }); ok {
+		if seq, ok := cones.path(n, m, -1); ok {
 			for _, s := range seq {
 				m = fire(n, m, s, &tok)
 			}
@@ -231,9 +237,91 @@ func missing(n *petri.Net, m petri.Marking, t int) int {
 	return k
 }
 
+// silentCones holds, per transition, the silent transitions that can help enable it: those that
+// put tokens into its input places, and, again, into theirs. A silent transition outside the cone
+// never adds a token to a place the cone needs, so leaving it out of a firing sequence keeps the
+// sequence firable and the target enabled: the shortest enabling sequence uses the cone only, and
+// in a net with many concurrent branches the cone is a small part of the search.
+//
+// It also remembers each search's answer by marking and target: the variants of a log share
+// prefixes, so the same search comes back many times, and a search that fails explores up to
+// silentLimit markings before it knows.
+type silentCones struct {
+	byTarget map[int][]int
+	memo     map[string]silentAnswer
+}
+
+type silentAnswer struct {
+	seq []int
+	ok  bool
+}
+
+// path is silentPath for target (−1: the final marking), remembered.
+func (c *silentCones) path(n *petri.Net, m petri.Marking, target int) ([]int, bool) {
+	k := strconv.Itoa(target) + "|" + m.Key()
+	if a, ok := c.memo[k]; ok {
+		return a.seq, a.ok
+	}
+	if c.memo == nil {
+		c.memo = map[string]silentAnswer{}
+	}
+	var seq []int
+	var ok bool
+	if target < 0 {
+		seq, ok = silentPath(n, m, nil, func(x petri.Marking) bool { return x.Equal(n.Final) })
+	} else {
+		seq, ok = silentPath(n, m, c.of(n, target), func(x petri.Marking) bool { return n.Enabled(x, target) })
+	}
+	c.memo[k] = silentAnswer{seq, ok}
+	return seq, ok
+}
+
+func (c *silentCones) of(n *petri.Net, target int) []int {
+	if ts, ok := c.byTarget[target]; ok {
+		return ts
+	}
+	if c.byTarget == nil {
+		c.byTarget = map[int][]int{}
+	}
+	need := map[int]bool{}
+	for _, p := range n.Transitions[target].In {
+		need[p] = true
+	}
+	in := make([]bool, len(n.Transitions))
+	for grew := true; grew; {
+		grew = false
+		for t, tr := range n.Transitions {
+			if in[t] || !tr.Silent() || !slices.ContainsFunc(tr.Out, func(p int) bool { return need[p] }) {
+				continue
+			}
+			in[t], grew = true, true
+			for _, p := range tr.In {
+				need[p] = true
+			}
+		}
+	}
+	ts := []int{}
+	for t, ok := range in {
+		if ok {
+			ts = append(ts, t)
+		}
+	}
+	c.byTarget[target] = ts
+	return ts
+}
+
 // silentPath finds the shortest sequence of silent transitions from m to a marking where goal
-// holds (breadth first, at most silentLimit markings).
-func silentPath(n *petri.Net, m petri.Marking, goal func(petri.Marking) bool) ([]int, bool) {
+// holds (breadth first, at most silentLimit markings), firing only the transitions in cone (nil:
+// every silent transition).
+func silentPath(n *petri.Net, m petri.Marking, cone []int, goal func(petri.Marking) bool) ([]int, bool) {
+	if cone == nil {
+		cone = []int{}
+		for t, tr := range n.Transitions {
+			if tr.Silent() {
+				cone = append(cone, t)
+			}
+		}
+	}
 	type node struct {
 		m      petri.Marking
 		parent int
@@ -251,8 +339,8 @@ func silentPath(n *petri.Net, m petri.Marking, goal func(petri.Marking) bool) ([
 			slices.Reverse(seq)
 			return seq, true
 		}
-		for t, tr := range n.Transitions {
-			if !tr.Silent() || !n.Enabled(cur.m, t) {
+		for _, t := range cone {
+			if !n.Enabled(cur.m, t) {
 				continue
 			}
 			next := n.Fire(cur.m, t)

@@ -18,6 +18,7 @@ import (
 	"slices"
 	"strings"
 	"sync"
+	"time"
 
 	"tracewright/core/bpmn"
 	"tracewright/core/conformance"
@@ -633,6 +634,10 @@ type ConformanceOptions struct {
 	Source    string  `json:"source"` // "discovered" (default) or "pnml"
 	Noise     float64 `json:"noise"`
 	MaxStates int     `json:"max_states"` // per variant; 0: 50,000
+	// MaxSeconds bounds the time per variant; 0: 5 s.
+	MaxSeconds float64 `json:"max_seconds"`
+	// Costs set log-move and model-move costs per activity (1 where not set).
+	Costs conformance.Costs `json:"costs"`
 	// Running includes cases still running (by the forecast's rules); by default they are left
 	// out, since their missing ends would count as skipped steps.
 	Running bool `json:"include_running"`
@@ -659,6 +664,12 @@ func (e *Engine) conformance(raw json.RawMessage, f *File) (*ConformanceResult, 
 	}
 	if o.MaxStates <= 0 {
 		o.MaxStates = 50000
+	}
+	if o.MaxSeconds <= 0 {
+		o.MaxSeconds = 5
+	}
+	if err := o.Costs.Check(); err != nil {
+		return nil, err
 	}
 	l, err := e.loaded()
 	if err != nil {
@@ -692,7 +703,8 @@ func (e *Engine) conformance(raw json.RawMessage, f *File) (*ConformanceResult, 
 		part := predict.Split(l, predict.Options{})
 		res.LeftOut, keep = len(part.Running), part.NotRunning()
 	}
-	if res.Alignment, err = conformance.AlignCases(l, net, conformance.Costs{}, o.MaxStates, keep); err != nil {
+	if res.Alignment, err = conformance.AlignCases(l, net, o.Costs,
+		conformance.Bound{States: o.MaxStates, Time: time.Duration(o.MaxSeconds * float64(time.Second))}, keep); err != nil {
 		return nil, err
 	}
 	rep := conformance.Replay(l, net)

@@ -6,6 +6,9 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"strconv"
+	"strings"
+	"time"
 
 	"tracewright/core/conformance"
 	"tracewright/core/petri"
@@ -27,6 +30,10 @@ func conformCommand(ctx context.Context, args []string, stdout io.Writer) error 
 	rf.register(fs)
 	model := fs.String("model", "", "the reference model, a PNML file (a sound workflow net)")
 	bound := fs.Int("max-states", 200000, "states an alignment may explore before its variant is reported as not aligned")
+	seconds := fs.Float64("max-seconds", 0, "time an alignment may take before its variant is reported as not aligned (0: no limit)")
+	costs := conformance.Costs{Log: map[string]int{}, Model: map[string]int{}}
+	fs.Func("log-cost", "`ACTIVITY=N`: the cost of doing ACTIVITY where the model does not allow it (default 1; repeatable)", costFlag(costs.Log))
+	fs.Func("model-cost", "`ACTIVITY=N`: the cost of skipping ACTIVITY where the model requires it (default 1; repeatable)", costFlag(costs.Model))
 	withRunning := fs.Bool("include-running", false, "align cases still running too (their missing ends count as skipped steps)")
 	asJSON := fs.Bool("json", false, "print JSON")
 	path, err := parse(fs, args)
@@ -61,7 +68,10 @@ func conformCommand(ctx context.Context, args []string, stdout io.Writer) error 
 		part := predict.Split(l, predict.Options{})
 		leftOut, keep = len(part.Running), part.NotRunning()
 	}
-	al, err := conformance.AlignCases(l, net, conformance.Costs{}, *bound, keep)
+	if err := costs.Check(); err != nil {
+		return &usageError{err.Error()}
+	}
+	al, err := conformance.AlignCases(l, net, costs, conformance.Bound{States: *bound, Time: time.Duration(*seconds * float64(time.Second))}, keep)
 	if err != nil {
 		return err
 	}
@@ -80,4 +90,20 @@ func conformCommand(ctx context.Context, args []string, stdout io.Writer) error 
 		fmt.Fprintf(stdout, "model labels the log does not have: %v\n", res.Unmatched.Labels)
 	}
 	return nil
+}
+
+// costFlag reads ACTIVITY=N into m; the activity may itself contain "=" (the last one splits).
+func costFlag(m map[string]int) func(string) error {
+	return func(v string) error {
+		i := strings.LastIndexByte(v, '=')
+		if i <= 0 {
+			return fmt.Errorf("%q: want ACTIVITY=N", v)
+		}
+		n, err := strconv.Atoi(v[i+1:])
+		if err != nil {
+			return fmt.Errorf("%q: the cost is not a whole number", v)
+		}
+		m[v[:i]] = n
+		return nil
+	}
 }
