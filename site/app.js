@@ -14,8 +14,8 @@
     return e;
   };
   const fmtInt = (n) => Number(n).toLocaleString('en-US');
-  const sections = ['start', 'mapping', 'progress', 'problem', 'overview', 'flowmap', 'model', 'conformance', 'forecast'];
-  const views = ['overview', 'flowmap', 'model', 'conformance', 'forecast'];
+  const sections = ['start', 'mapping', 'progress', 'problem', 'overview', 'flowmap', 'model', 'conformance', 'timing', 'forecast'];
+  const views = ['overview', 'flowmap', 'model', 'conformance', 'timing', 'forecast'];
   function show(name) {
     for (const s of sections) $(s).hidden = s !== name;
     document.body.dataset.state = name;
@@ -298,24 +298,32 @@
     if (text != null) e.textContent = text;
     return e;
   }
-  function drawHistogram(bins) {
-    const box = $('histogram');
+  function drawHistogram(bins) { drawBars($('histogram'), [{ bins, cls: 'hbar', unit: 'cases' }]); }
+  // drawBars draws one or more series over the same bins side by side; with several series each
+  // bar is its series' share, so groups of different sizes compare.
+  function drawBars(box, series) {
     box.replaceChildren();
+    const bins = series[0].bins || [];
     if (!bins.length) return;
     const W = 480, H = 200, L = 44, B = 34, T = 8;
-    const maxC = Math.max(...bins.map((b) => b.count));
-    const s = svg('svg', { viewBox: '0 0 ' + W + ' ' + H, width: '100%', role: 'img', 'aria-label': 'Histogram of case durations, ' + bins.length + ' bars' });
+    const share = series.length > 1;
+    const val = (s, b) => share ? b.count / Math.max(1, s.bins.reduce((a, x) => a + x.count, 0)) : b.count;
+    const maxC = Math.max(...series.flatMap((s) => s.bins.map((b) => val(s, b))));
+    const s = svg('svg', { viewBox: '0 0 ' + W + ' ' + H, width: '100%', role: 'img', 'aria-label': 'Histogram of case durations, ' + bins.length + ' bars' + (share ? ' per group' : '') });
     const bw = (W - L - 8) / bins.length;
-    bins.forEach((b, i) => {
-      const h = maxC ? (H - B - T) * b.count / maxC : 0;
-      const r = svg('rect', { class: 'hbar', x: L + i * bw + 1, y: H - B - h, width: Math.max(1, bw - 2), height: h });
-      r.append(svg('title', {}, duration(b.lo) + ' to ' + duration(b.hi) + ': ' + fmtInt(b.count) + ' cases'));
-      s.append(r);
+    series.forEach((sr, k) => {
+      const w = bw / series.length;
+      sr.bins.forEach((b, i) => {
+        const h = maxC ? (H - B - T) * val(sr, b) / maxC : 0;
+        const r = svg('rect', { class: sr.cls, x: L + i * bw + k * w + 1, y: H - B - h, width: Math.max(1, w - 2), height: h });
+        r.append(svg('title', {}, duration(b.lo) + ' to ' + duration(b.hi) + ': ' + fmtInt(b.count) + ' ' + sr.unit + (share ? ' (' + (100 * val(sr, b)).toFixed(1) + '%)' : '')));
+        s.append(r);
+      });
     });
     s.append(svg('text', { x: L, y: H - B + 14 }, duration(bins[0].lo)));
     s.append(svg('text', { x: W - 8, y: H - B + 14, 'text-anchor': 'end' }, duration(bins[bins.length - 1].hi)));
     s.append(svg('text', { x: (L + W) / 2, y: H - 4, 'text-anchor': 'middle' }, 'case duration'));
-    s.append(svg('text', { x: L - 6, y: T + 10, 'text-anchor': 'end' }, fmtInt(maxC)));
+    s.append(svg('text', { x: L - 6, y: T + 10, 'text-anchor': 'end' }, share ? (100 * maxC).toFixed(0) + '%' : fmtInt(maxC)));
     s.append(svg('text', { x: L - 6, y: H - B, 'text-anchor': 'end' }, '0'));
     s.append(svg('line', { x1: L, y1: H - B, x2: W - 8, y2: H - B, stroke: 'currentColor', 'stroke-opacity': 0.3 }));
     box.append(s);
@@ -330,6 +338,7 @@
       if (b.dataset.view === 'model') drawModel();
       if (b.dataset.view === 'forecast' && !forecast) runForecast();
       if (b.dataset.view === 'conformance' && !conf) runConformance();
+      if (b.dataset.view === 'timing') { if (conf) renderTiming(); else runConformance(); }
     });
   }
   $('views').setAttribute('role', 'tablist');
@@ -476,17 +485,39 @@
   async function runConformance() {
     const source = document.querySelector('input[name=cf-source]:checked').value;
     if (source === 'pnml' && !pnmlFile) { $('cf-model').textContent = 'Choose a PNML file first.'; return; }
+    $('conformance').dataset.ready = 'false';
+    $('timing').dataset.ready = 'false';
     $('cf-model').textContent = 'Setting every path against the model…';
     try {
-      const { done } = await call('conformance', { source, noise: $('md-noise').value / 100 }, source === 'pnml' ? pnmlFile : null);
+      const { done } = await call('conformance', { source, noise: $('md-noise').value / 100, costs: readCosts() }, source === 'pnml' ? pnmlFile : null);
       conf = await done;
       renderConformance();
+      if (!$('timing').hidden) renderTiming();
     } catch (err) {
       $('cf-model').textContent = '';
       $('cf-figures').replaceChildren(el('p', { class: 'bad', text: err.message || String(err) }));
     }
   }
   $('cf-run').addEventListener('click', runConformance);
+  // readCosts collects the weights the user changed in the departures table (1 is the default
+  // and is not sent).
+  function readCosts() {
+    const costs = { log: {}, model: {} };
+    for (const inp of $('cf-acts').querySelectorAll('input[data-kind]')) {
+      const v = Number(inp.value);
+      if (inp.value !== '' && Number.isInteger(v) && v >= 0 && v <= 1000 && v !== 1) costs[inp.dataset.kind][inp.dataset.activity] = v;
+    }
+    return costs;
+  }
+  async function saveCases(which) {
+    try {
+      const { done } = await call('conformance_cases', { which });
+      const res = await done;
+      download(which + '-cases.csv', 'text/csv', res.csv);
+    } catch (err) { $('cf-notes').append(el('p', { class: 'bad', text: err.message || String(err) })); }
+  }
+  $('cf-save-fit').addEventListener('click', () => saveCases('fitting'));
+  $('cf-save-dev').addEventListener('click', () => saveCases('deviating'));
   function renderConformance() {
     const c = conf, a = c.alignment;
     $('cf-model').textContent = 'Reference model: ' + c.model + '.' + (c.running_cases_left_out ? ' ' + fmtInt(c.running_cases_left_out) + ' cases still running are left out: their missing ends are not deviations.' : '');
@@ -504,17 +535,21 @@
     if (c.unmatched.activities.length) notes.append(el('p', { class: 'notice', text: 'Activities the model does not know: ' + c.unmatched.activities.join(', ') + '.' }));
     if (c.unmatched.labels.length) notes.append(el('p', { class: 'notice', text: 'Model steps the log never shows: ' + c.unmatched.labels.join(', ') + '.' }));
     const t = $('cf-acts');
+    const old = readCosts();
     t.replaceChildren(el('thead', {}, el('tr', {}, el('th', { scope: 'col', text: 'Activity' }), el('th', { scope: 'col', class: 'num', text: 'As allowed' }),
-      el('th', { scope: 'col', class: 'num', text: 'Not allowed there' }), el('th', { scope: 'col', class: 'num', text: 'Skipped' }))));
+      el('th', { scope: 'col', class: 'num', text: 'Not allowed there' }), el('th', { scope: 'col', class: 'num', text: 'Skipped' }),
+      el('th', { scope: 'col', class: 'num', text: 'Weight if added' }), el('th', { scope: 'col', class: 'num', text: 'Weight if skipped' }))));
     const tb = el('tbody');
+    const weight = (kind, a) => el('input', { type: 'number', min: '0', max: '1000', step: '1', class: 'weight', 'data-kind': kind, 'data-activity': a,
+      value: String(old[kind][a] ?? 1), 'aria-label': (kind === 'log' ? 'Weight of doing ' : 'Weight of skipping ') + a });
     for (const d of c.activities) {
-      tb.append(el('tr', {}, el('td', { text: d.activity }), el('td', { class: 'num', text: fmtInt(d.sync) }), el('td', { class: 'num', text: fmtInt(d.log_moves) }), el('td', { class: 'num', text: fmtInt(d.model_moves) })));
+      tb.append(el('tr', {}, el('td', { text: d.activity }), el('td', { class: 'num', text: fmtInt(d.sync) }), el('td', { class: 'num', text: fmtInt(d.log_moves) }), el('td', { class: 'num', text: fmtInt(d.model_moves) }),
+        el('td', { class: 'num' }, weight('log', d.activity)), el('td', { class: 'num' }, weight('model', d.activity))));
     }
     t.append(tb);
-    const list = $('cf-vars');
-    list.replaceChildren();
-    const vars = a.variants.filter((v) => v.aligned).sort((x, y) => y.cases - x.cases).slice(0, 15);
-    for (const v of vars) {
+    placeSVG($('cf-canvas'), c.svg);
+    $('cf-save').hidden = false;
+    const pathItem = (v) => {
       const chips = [];
       for (const m of v.moves) {
         if (m.silent) continue;
@@ -522,10 +557,56 @@
         const title = m.kind === 'sync' ? 'as the model allows' : m.kind === 'log' ? 'done, but the model does not allow it here' : 'required by the model, skipped';
         chips.push(el('span', { class: cls, text: m.activity, title }));
       }
-      list.append(el('li', {}, el('span', { class: 'share', text: fmtInt(v.cases) + ' cases' }),
-        el('span', { class: 'muted small', text: v.cost ? v.cost + ' deviations' : 'fits' }), el('br'), ...chips));
+      const more = v.cases > v.case_examples.length ? ', …' : '';
+      return el('li', {}, el('span', { class: 'share', text: fmtInt(v.cases) + (v.cases === 1 ? ' case' : ' cases') }),
+        el('span', { class: 'muted small', text: v.cost ? 'departure cost ' + v.cost : 'fits' }), el('br'), ...chips,
+        el('div', { class: 'muted small', text: 'Cases: ' + v.case_examples.join(', ') + more }));
+    };
+    const pats = $('cf-pats');
+    pats.replaceChildren();
+    for (const p of c.patterns.slice(0, 12)) {
+      const what = p.kind === 'log' ? 'Done where not allowed: ' : 'Skipped where required: ';
+      const ol = el('ol', { class: 'paths' });
+      const vs = p.variants.map((i) => a.variants[i]).sort((x, y) => y.cases - x.cases);
+      for (const v of vs.slice(0, 8)) ol.append(pathItem(v));
+      if (vs.length > 8) ol.append(el('li', { class: 'muted small', text: 'and ' + (vs.length - 8) + ' more paths' }));
+      pats.append(el('details', { class: 'pattern' }, el('summary', {}, el('span', { class: 'share', text: fmtInt(p.cases) + (p.cases === 1 ? ' case' : ' cases') }),
+        what + p.activity + (vs.length > 1 ? ' (' + vs.length + ' paths)' : '')), ol));
     }
+    if (!c.patterns.length) pats.append(el('p', { class: 'muted', text: 'No case departs from the model.' }));
+    const list = $('cf-vars');
+    list.replaceChildren();
+    for (const v of a.variants.filter((x) => x.aligned).sort((x, y) => y.cases - x.cases).slice(0, 15)) list.append(pathItem(v));
     $('conformance').dataset.ready = 'true';
+  }
+
+  function renderTiming() {
+    const tm = conf.timing;
+    const figs = $('tm-figures');
+    figs.replaceChildren();
+    const fig = (metric, value, text, label) => figs.append(el('div', { class: 'figure', 'data-metric': metric, 'data-value': String(value) },
+      el('span', { class: 'value', text }), el('span', { class: 'label', text: label })));
+    fig('fitting_median', tm.fitting_case_seconds.median, tm.fitting_case_seconds.n ? duration(tm.fitting_case_seconds.median) : '–', 'median duration of the ' + fmtInt(tm.fitting_case_seconds.n) + ' cases that follow the model');
+    fig('deviating_median', tm.deviating_case_seconds.median, tm.deviating_case_seconds.n ? duration(tm.deviating_case_seconds.median) : '–', 'median duration of the ' + fmtInt(tm.deviating_case_seconds.n) + ' cases that depart from it');
+    const key = tm.has_start ? 'waiting_seconds' : 'sojourn_seconds';
+    $('tm-how').textContent = (tm.has_start
+      ? 'The log records when steps start, so waiting (from the moment the model allows a step to its start) and work (start to completion) are told apart. '
+      : 'The log records only completions, so each step\'s time runs from the moment the model allows it to its completion, waiting and work together. ') +
+      'Reference model: ' + conf.model + '.' + (tm.cases_untimed ? ' ' + fmtInt(tm.cases_untimed) + ' cases without timestamps are left out.' : '');
+    placeSVG($('tm-canvas'), conf.timing_svg);
+    const steps = tm.transitions.filter((x) => x[key].n).sort((a, b) => b[key].median - a[key].median);
+    const head = el('tr', {}, el('th', { scope: 'col', text: 'Step' }), el('th', { scope: 'col', class: 'num', text: 'Times' }),
+      el('th', { scope: 'col', class: 'num', text: tm.has_start ? 'Median wait' : 'Median time' }), el('th', { scope: 'col', class: 'num', text: tm.has_start ? 'Mean wait' : 'Mean time' }),
+      el('th', { scope: 'col', class: 'num', text: '90% within' }), tm.has_start ? el('th', { scope: 'col', class: 'num', text: 'Median work' }) : null);
+    const body = el('tbody');
+    for (const x of steps) {
+      const d = x[key];
+      body.append(el('tr', {}, el('td', { text: x.activity }), el('td', { class: 'num', text: fmtInt(d.n) }), el('td', { class: 'num', text: duration(d.median) }),
+        el('td', { class: 'num', text: duration(d.mean) }), el('td', { class: 'num', text: duration(d.p90) }), tm.has_start ? el('td', { class: 'num', text: duration(x.service_seconds.median) }) : null));
+    }
+    $('tm-steps').replaceChildren(el('thead', {}, head), body);
+    drawBars($('tm-hist'), [{ bins: tm.fitting_case_histogram || [], cls: 'hbar fit', unit: 'fitting cases' }, { bins: tm.deviating_case_histogram || [], cls: 'hbar dev', unit: 'deviating cases' }]);
+    $('timing').dataset.ready = 'true';
   }
 
   let forecast = null;

@@ -3,6 +3,7 @@ package conformance
 import (
 	"errors"
 	"runtime"
+	"slices"
 	"sort"
 	"strings"
 	"sync"
@@ -14,16 +15,18 @@ import (
 
 // VariantAlignment is the alignment of one variant, shared by all its cases.
 type VariantAlignment struct {
-	Trace     []string `json:"trace"`
-	Cases     int      `json:"cases"`
-	Cost      int      `json:"cost"`
-	Fitness   float64  `json:"fitness"`
-	Moves     []Move   `json:"moves"`
-	States    int      `json:"states_explored"`
-	Aligned   bool     `json:"aligned"`
-	Reason    string   `json:"reason,omitempty"`
+	Trace   []string `json:"trace"`
+	Cases   int      `json:"cases"`
+	Cost    int      `json:"cost"`
+	Fitness float64  `json:"fitness"`
+	Moves   []Move   `json:"moves"`
+	States  int      `json:"states_explored"`
+	Aligned bool     `json:"aligned"`
+	Reason  string   `json:"reason,omitempty"`
+	// Examples names up to 10 of the variant's cases, in log order, so a reader can look them up.
+	Examples  []string `json:"case_examples"`
 	alignment *Alignment
-	variant   *eventlog.Variant
+	cases     []int32 // the cases counted, in log order
 }
 
 // Result is the alignment of a whole log.
@@ -61,16 +64,16 @@ func AlignCases(l *eventlog.Log, n *petri.Net, costs Costs, bound Bound, keep fu
 		return nil, err
 	}
 	res := &Result{ShortestRun: shortest}
-	for vi, v := range l.Variants {
-		cases := len(v.Cases)
+	for _, v := range l.Variants {
+		cases := v.Cases
 		if keep != nil {
-			cases = 0
+			cases = nil
 			for _, c := range v.Cases {
 				if keep(int(c)) {
-					cases++
+					cases = append(cases, c)
 				}
 			}
-			if cases == 0 {
+			if len(cases) == 0 {
 				continue
 			}
 		}
@@ -78,8 +81,12 @@ func AlignCases(l *eventlog.Log, n *petri.Net, costs Costs, bound Bound, keep fu
 		for _, a := range v.Activities {
 			trace = append(trace, l.Activities.Name(a))
 		}
-		res.Variants = append(res.Variants, VariantAlignment{Trace: trace, Cases: cases, variant: &l.Variants[vi]})
-		res.Cases += cases
+		var examples []string
+		for _, c := range cases[:min(10, len(cases))] {
+			examples = append(examples, l.CaseID(int(c)))
+		}
+		res.Variants = append(res.Variants, VariantAlignment{Trace: trace, Cases: len(cases), cases: cases, Examples: examples})
+		res.Cases += len(cases)
 	}
 	alignments := make([]*Alignment, len(res.Variants))
 	errs := make([]error, len(res.Variants))
@@ -234,5 +241,18 @@ func enabledVisible(n *petri.Net, m petri.Marking) map[string]bool {
 			}
 		}
 	}
+	return out
+}
+
+// CaseSet lists the cases of the aligned variants that fit the model (cost 0) or, with fit false,
+// those that deviate, in log order. Variants that were not aligned are in neither.
+func (r *Result) CaseSet(fit bool) []int32 {
+	var out []int32
+	for _, v := range r.Variants {
+		if v.Aligned && (v.Cost == 0) == fit {
+			out = append(out, v.cases...)
+		}
+	}
+	slices.Sort(out)
 	return out
 }

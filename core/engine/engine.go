@@ -18,7 +18,6 @@ import (
 	"slices"
 	"strings"
 	"sync"
-	"time"
 
 	"tracewright/core/bpmn"
 	"tracewright/core/conformance"
@@ -84,6 +83,7 @@ type Engine struct {
 	mu      sync.Mutex
 	prevMap *layout.Result // the last flow map's layout, so that nodes keep their places
 	log     *eventlog.Log
+	conf    *conformance.Result // the last conformance check's alignments, for conformance_cases
 	cancels map[int]context.CancelFunc
 }
 
@@ -129,6 +129,8 @@ func (e *Engine) Handle(ctx context.Context, req Request, file *File, emit func(
 		payload, err = e.forecast(req.Payload)
 	case "conformance":
 		payload, err = e.conformance(req.Payload, file)
+	case "conformance_cases":
+		payload, err = e.conformanceCases(req.Payload)
 	case "cancel":
 		payload, err = e.cancel(req.Payload)
 	default:
@@ -275,7 +277,7 @@ func (e *Engine) load(ctx context.Context, req Request, f *File, emit func(Respo
 		return nil, err
 	}
 	e.mu.Lock()
-	e.log, e.prevMap = l, nil
+	e.log, e.prevMap, e.conf = l, nil, nil
 	e.mu.Unlock()
 	if rep.CSV != nil {
 		rep.CSV.Preview = nil // the page has it from sniff; keep the message small
@@ -624,94 +626,6 @@ func (e *Engine) forecast(raw json.RawMessage) (*ForecastResult, error) {
 	}
 	if res.Running == nil {
 		res.Running = []predict.RunningForecast{}
-	}
-	return res, nil
-}
-
-// ConformanceOptions choose the reference model: the model discovered with the given noise, or
-// a PNML file handed over with the request.
-type ConformanceOptions struct {
-	Source    string  `json:"source"` // "discovered" (default) or "pnml"
-	Noise     float64 `json:"noise"`
-	MaxStates int     `json:"max_states"` // per variant; 0: 50,000
-	// MaxSeconds bounds the time per variant; 0: 5 s.
-	MaxSeconds float64 `json:"max_seconds"`
-	// Costs set log-move and model-move costs per activity (1 where not set).
-	Costs conformance.Costs `json:"costs"`
-	// Running includes cases still running (by the forecast's rules); by default they are left
-	// out, since their missing ends would count as skipped steps.
-	Running bool `json:"include_running"`
-}
-
-// ConformanceResult is what the conformance view shows.
-type ConformanceResult struct {
-	Model       string                          `json:"model"`
-	LeftOut     int                             `json:"running_cases_left_out"`
-	Alignment   *conformance.Result             `json:"alignment"`
-	TokenReplay float64                         `json:"token_replay_fitness"`
-	Activities  []conformance.ActivityDeviation `json:"activities"`
-	Patterns    []conformance.Pattern           `json:"patterns"`
-	Unmatched   conformance.Matching            `json:"unmatched"`
-	SVG         string                          `json:"svg"`
-}
-
-func (e *Engine) conformance(raw json.RawMessage, f *File) (*ConformanceResult, error) {
-	var o ConformanceOptions
-	if len(raw) > 0 {
-		if err := json.Unmarshal(raw, &o); err != nil {
-			return nil, fmt.Errorf("conformance options: %w", err)
-		}
-	}
-	if o.MaxStates <= 0 {
-		o.MaxStates = 50000
-	}
-	if o.MaxSeconds <= 0 {
-		o.MaxSeconds = 5
-	}
-	if err := o.Costs.Check(); err != nil {
-		return nil, err
-	}
-	l, err := e.loaded()
-	if err != nil {
-		return nil, err
-	}
-	res := &ConformanceResult{}
-	var net *petri.Net
-	switch o.Source {
-	case "", "discovered":
-		t := discovery.InductiveMiner(discovery.FromEventLog(l), discovery.Options{Noise: o.Noise})
-		net = petri.FromTree(t)
-		res.Model = fmt.Sprintf("discovered by the Inductive Miner (leaving out %.0f%%)", o.Noise*100)
-	case "pnml":
-		if f == nil {
-			return nil, errors.New("choose a PNML file for the reference model")
-		}
-		if net, err = petri.ReadPNML(f.R); err != nil {
-			return nil, err
-		}
-		res.Model = f.Name
-		if err := net.Sound(200000); err != nil {
-			return nil, fmt.Errorf("%s is not a sound workflow net: %w", f.Name, err)
-		}
-		src, _, _ := net.WorkflowNet()
-		net.Initial = net.Marking(src)
-	default:
-		return nil, fmt.Errorf("unknown model source %q", o.Source)
-	}
-	var keep func(int) bool
-	if !o.Running {
-		part := predict.Split(l, predict.Options{})
-		res.LeftOut, keep = len(part.Running), part.NotRunning()
-	}
-	if res.Alignment, err = conformance.AlignCases(l, net, o.Costs,
-		conformance.Bound{States: o.MaxStates, Time: time.Duration(o.MaxSeconds * float64(time.Second))}, keep); err != nil {
-		return nil, err
-	}
-	rep := conformance.Replay(l, net)
-	res.TokenReplay, res.Unmatched = rep.Fitness, rep.Unmatched
-	res.Activities, res.Patterns = conformance.Deviations(res.Alignment)
-	if res.SVG, _, err = render.PetriNet(net); err != nil {
-		return nil, err
 	}
 	return res, nil
 }

@@ -18,6 +18,13 @@ var CSVColumns = struct{ Case, Activity, Time, Resource, Lifecycle string }{
 
 // WriteCSV writes the log as CSV, one row per event, cases in the log's order.
 func WriteCSV(w io.Writer, l *eventlog.Log) error {
+	return WriteCSVCases(w, l, nil)
+}
+
+// WriteCSVCases writes only the given cases (indices into the log, in the order given; nil
+// writes all), for a log filtered to, say, the cases that deviate from a model. The file has
+// the same columns as the whole log's would.
+func WriteCSVCases(w io.Writer, l *eventlog.Log, cases []int32) error {
 	bw := bufio.NewWriterSize(w, 1<<20)
 	cw := csv.NewWriter(bw)
 	// The five columns are always written, empty where the log has no value, so that scripts
@@ -46,7 +53,14 @@ func WriteCSV(w io.Writer, l *eventlog.Log) error {
 	}
 	row := make([]string, len(header))
 	var tbuf []byte
-	for c := 0; c < l.NumCases(); c++ {
+	if cases == nil {
+		cases = make([]int32, l.NumCases())
+		for c := range cases {
+			cases[c] = int32(c)
+		}
+	}
+	for _, ci := range cases {
+		c := int(ci)
 		from, to := l.Events(c)
 		for e := from; e < to; e++ {
 			row = row[:0]

@@ -63,7 +63,7 @@ func DFG(g *dfg.Graph, opt DFGOptions) (string, *layout.Result, error) {
 		label := fmt.Sprint(e.Count)
 		if opt.Mode == Durations && e.Duration.N > 0 {
 			color = DurationRamp.At(e.Duration.Median / maxDur)
-			label = human(e.Duration.Median)
+			label = Human(e.Duration.Median)
 		} else if opt.Mode == Counts {
 			color = CountRamp.At(0.35 + 0.65*float64(e.Count)/float64(maxEdge))
 		}
@@ -103,8 +103,9 @@ func DFG(g *dfg.Graph, opt DFGOptions) (string, *layout.Result, error) {
 	return s.String(), res, nil
 }
 
-// human writes seconds as the two largest units.
-func human(s float64) string {
+// Human writes a duration in seconds the way the drawings label it: seconds, minutes, hours or
+// days with the unit, one decimal from hours up.
+func Human(s float64) string {
 	d := time.Duration(s * float64(time.Second))
 	switch {
 	case d >= 24*time.Hour:

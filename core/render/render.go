@@ -4,8 +4,8 @@
 // lays them out with package layout and escapes every label, so an activity called
 // <script>alert(1)</script> or "a & b" is drawn as that text.
 //
-// The two colour ramps are our own: counts run from a pale sage to a deep pine, durations from a
-// pale sand to a deep rust. Both are sequential with lightness falling steadily, so they read the
+// The three colour ramps are our own: counts run from a pale sage to a deep pine, durations from a
+// pale sand to a deep rust, deviations from a pale lilac to a deep plum. All are sequential with lightness falling steadily, so they read the
 // same for people with any kind of colour vision deficiency, and in grey print.
 package render
 
@@ -24,8 +24,9 @@ type Ramp struct{ From, To [3]uint8 }
 
 // Our ramps (see the package doc).
 var (
-	CountRamp    = Ramp{From: [3]uint8{0xe4, 0xef, 0xe9}, To: [3]uint8{0x1d, 0x4f, 0x43}}
-	DurationRamp = Ramp{From: [3]uint8{0xf8, 0xec, 0xd9}, To: [3]uint8{0x8c, 0x32, 0x12}}
+	CountRamp     = Ramp{From: [3]uint8{0xe4, 0xef, 0xe9}, To: [3]uint8{0x1d, 0x4f, 0x43}}
+	DurationRamp  = Ramp{From: [3]uint8{0xf8, 0xec, 0xd9}, To: [3]uint8{0x8c, 0x32, 0x12}}
+	DeviationRamp = Ramp{From: [3]uint8{0xf1, 0xea, 0xf4}, To: [3]uint8{0x5b, 0x1f, 0x5e}}
 )
 
 // At returns the colour at t in [0, 1] as #rrggbb.

@@ -456,8 +456,46 @@ func TestConformanceView(t *testing.T) {
 	got := metrics(t, ctx)
 	assert.NotEmpty(t, got["fitness"])
 	assert.NotEmpty(t, got["precision"])
+	drawn, err := chromedp.Run(ctx, chromedp.Evaluate[string](`document.querySelector('#cf-canvas svg').textContent`))
+	require.NoError(t, err)
+	assert.Contains(t, drawn, "skipped", "the departures are drawn on the model")
+	cases, err := chromedp.Run(ctx, chromedp.Evaluate[string](`(() => {
+		const d = document.querySelector('#cf-pats details');
+		d.open = true;
+		return d.textContent;
+	})()`))
+	require.NoError(t, err)
+	assert.Contains(t, cases, "Cases: WR-", "a departure lists the cases behind it")
 	shot(t, ctx, "conformance")
+
+	// weights: make the most frequent departure count 50 times; the check runs again with them
+	act, err := chromedp.Run(ctx, chromedp.Evaluate[string](`(() => {
+		const row = document.querySelector('#cf-acts tbody tr');
+		for (const i of row.querySelectorAll('input.weight')) i.value = '50';
+		document.getElementById('cf-run').click();
+		return row.querySelector('input.weight').dataset.activity;
+	})()`))
+	require.NoError(t, err)
+	require.NoError(t, chromedp.Do(ctx, chromedp.WaitVisible(chromedp.CSS(`#conformance[data-ready="true"] [data-metric="fitness"]`))))
+	weighted := metrics(t, ctx)
+	assert.NotEqual(t, got["fitness"], weighted["fitness"], "weights of 50 on %s change the fitness", act)
+	kept, err := chromedp.Run(ctx, chromedp.Evaluate[string](`document.querySelector('#cf-acts input.weight[data-activity="`+act+`"]').value`))
+	require.NoError(t, err)
+	assert.Equal(t, "50", kept, "the weights stay after the check")
+
+	// the delays view: time on the same model
 	require.NoError(t, chromedp.Do(ctx,
+		chromedp.Click(chromedp.CSS(`#views [data-view="timing"]`)),
+		chromedp.WaitVisible(chromedp.CSS(`#timing[data-ready="true"] [data-metric="fitting_median"]`)),
+	))
+	timed, err := chromedp.Run(ctx, chromedp.Evaluate[string](`document.querySelector('#tm-canvas svg').textContent + '|' + document.querySelectorAll('#tm-steps tbody tr').length + '|' + document.querySelectorAll('#tm-hist rect').length`))
+	require.NoError(t, err)
+	assert.Contains(t, timed, "median")
+	assert.NotContains(t, timed, "|0|")
+	shot(t, ctx, "timing")
+
+	require.NoError(t, chromedp.Do(ctx,
+		chromedp.Click(chromedp.CSS(`#views [data-view="conformance"]`)),
 		chromedp.SetUploadFiles(chromedp.CSS(`#cf-file`), []string{pnml}),
 		chromedp.WaitVisible(chromedp.CSS(`#cf-notes .notice`)),
 	))

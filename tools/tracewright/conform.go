@@ -11,8 +11,10 @@ import (
 	"time"
 
 	"tracewright/core/conformance"
+	"tracewright/core/export"
 	"tracewright/core/petri"
 	"tracewright/core/predict"
+	"tracewright/core/render"
 )
 
 // conformOutput is `conform --json`: alignment-based fitness and precision with every variant's
@@ -22,6 +24,7 @@ type conformOutput struct {
 	LeftOut int    `json:"running_cases_left_out"`
 	*conformance.Result
 	TokenReplay conformance.ReplayResult `json:"token_replay"`
+	Timing      *conformance.Timing      `json:"timing"`
 }
 
 func conformCommand(ctx context.Context, args []string, stdout io.Writer) error {
@@ -36,12 +39,26 @@ func conformCommand(ctx context.Context, args []string, stdout io.Writer) error 
 	fs.Func("model-cost", "`ACTIVITY=N`: the cost of skipping ACTIVITY where the model requires it (default 1; repeatable)", costFlag(costs.Model))
 	withRunning := fs.Bool("include-running", false, "align cases still running too (their missing ends count as skipped steps)")
 	asJSON := fs.Bool("json", false, "print JSON")
+	which := fs.String("cases", "", "with --out: write the `fitting` or the `deviating` cases as a CSV log")
+	out := fs.String("out", "", "the CSV file for --cases")
+	force := fs.Bool("force", false, "replace an existing --out file")
 	path, err := parse(fs, args)
 	if err != nil {
 		return err
 	}
 	if *model == "" {
 		return &usageError{"conform needs --model NET.pnml"}
+	}
+	if (*which == "") != (*out == "") {
+		return &usageError{"--cases and --out go together"}
+	}
+	if *which != "" && *which != "fitting" && *which != "deviating" {
+		return &usageError{fmt.Sprintf("--cases is fitting or deviating, not %q", *which)}
+	}
+	if *out != "" {
+		if err := checkOutput(path, *out, *force); err != nil {
+			return err
+		}
 	}
 	f, err := os.Open(*model)
 	if err != nil {
@@ -75,8 +92,16 @@ func conformCommand(ctx context.Context, args []string, stdout io.Writer) error 
 	if err != nil {
 		return err
 	}
+	if *out != "" {
+		set := al.CaseSet(*which == "fitting")
+		if err := writeFile(*out, func(w io.Writer) error { return export.WriteCSVCases(w, l, set) }); err != nil {
+			return err
+		}
+		fmt.Fprintf(os.Stderr, "tracewright: %d %s cases written to %s\n", len(set), *which, *out)
+	}
+	timing := conformance.TimeOnModel(l, net, al)
 	if *asJSON {
-		return printJSON(stdout, conformOutput{Model: *model, LeftOut: leftOut, Result: al, TokenReplay: res})
+		return printJSON(stdout, conformOutput{Model: *model, LeftOut: leftOut, Result: al, TokenReplay: res, Timing: timing})
 	}
 	fmt.Fprintf(stdout, "alignments: fitness %.4f, precision %.4f; %d of %d cases fit; %d variants not aligned within the bound; %d running cases left out\n",
 		al.Fitness, al.Precision, al.FittingCases, al.Cases, al.NotAligned, leftOut)
@@ -89,6 +114,22 @@ func conformCommand(ctx context.Context, args []string, stdout io.Writer) error 
 	if len(res.Unmatched.Labels) > 0 {
 		fmt.Fprintf(stdout, "model labels the log does not have: %v\n", res.Unmatched.Labels)
 	}
+	what := "sojourn (enabled to complete)"
+	if timing.HasStart {
+		what = "waiting (enabled to start)"
+	}
+	fmt.Fprintf(stdout, "time on the model, median %s per step:\n", what)
+	for _, tt := range timing.Transitions {
+		d := tt.Sojourn
+		if timing.HasStart {
+			d = tt.Waiting
+		}
+		if d.N > 0 {
+			fmt.Fprintf(stdout, "  %-30s %10s  (%d times)\n", tt.Activity, render.Human(d.Median), d.N)
+		}
+	}
+	fmt.Fprintf(stdout, "case duration, median: fitting %s (%d cases), deviating %s (%d cases)\n",
+		render.Human(timing.Fitting.Median), timing.Fitting.N, render.Human(timing.Deviating.Median), timing.Deviating.N)
 	return nil
 }
 

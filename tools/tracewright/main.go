@@ -68,7 +68,7 @@ const usage = `usage:
   tracewright dfg LOG [--activities SHARE] [--edges SHARE] [reading flags]
   tracewright discover LOG [--method im|imd|alpha] [--noise F] [--out NET.pnml] [--dot NET.dot] [--bpmn MODEL.bpmn] [--json]
   tracewright predict LOG [--json] [--abstraction sequence|multiset|set] [--horizon K] [--outcome RULE] [--end A,B] [--kfold K]
-  tracewright conform LOG --model NET.pnml [--json] [--max-states N] [--max-seconds S] [--log-cost A=N] [--model-cost A=N] [--include-running]
+  tracewright conform LOG --model NET.pnml [--json] [--max-states N] [--max-seconds S] [--log-cost A=N] [--model-cost A=N] [--include-running] [--cases fitting|deviating --out FILE.csv]
   tracewright version
 
 reading flags:

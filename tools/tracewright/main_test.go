@@ -195,4 +195,25 @@ func TestConformTokenReplay(t *testing.T) {
 	code, _, errs = runCLI("conform", "testdata/small.csv")
 	assert.Equal(t, exitUsage, code)
 	assert.Contains(t, errs, "--model")
+
+	// the fitting cases as a log of their own; the input is never the output
+	fit := filepath.Join(dir, "fit.csv")
+	code, _, errs = runCLI("conform", "testdata/small.csv", "--model", pnml, "--cases", "fitting", "--out", fit)
+	require.Equal(t, exitOK, code, errs)
+	code, out, errs = runCLI("inspect", fit, "--json")
+	require.Equal(t, exitOK, code, errs)
+	code2, out2, _ := runCLI("inspect", "testdata/small.csv", "--json")
+	require.Equal(t, exitOK, code2)
+	var a, b struct {
+		Cases int `json:"cases"`
+	}
+	require.NoError(t, json.Unmarshal([]byte(out), &a))
+	require.NoError(t, json.Unmarshal([]byte(out2), &b))
+	assert.Equal(t, b.Cases, a.Cases, "every case fits")
+	code, _, errs = runCLI("conform", "testdata/small.csv", "--model", pnml, "--cases", "deviating", "--out", "testdata/small.csv", "--force")
+	assert.Equal(t, exitUsage, code)
+	assert.Contains(t, errs, "never changed")
+	code, _, errs = runCLI("conform", "testdata/small.csv", "--model", pnml, "--model-cost", "a=-2")
+	assert.Equal(t, exitUsage, code)
+	assert.Contains(t, errs, "0 to 1000")
 }
