@@ -580,6 +580,10 @@
     $('conformance').dataset.ready = 'true';
   }
 
+  $('tm-flow').addEventListener('click', () => {
+    document.querySelector('input[name=fm-mode][value=durations]').checked = true;
+    document.querySelector('#views [data-view="flowmap"]').click();
+  });
   function renderTiming() {
     const tm = conf.timing;
     const figs = $('tm-figures');

@@ -126,6 +126,7 @@ type aligner struct {
 	colZ, colS     []int // per transition; colS is −1 for silent ones
 	colW           []int // per label
 	rhs            []float64
+	search         *search // kept from one trace to the next
 }
 
 type placeCount struct {
@@ -218,9 +219,18 @@ type searchNode struct {
 	kind   uint8 // moveLog, moveModel, moveSync; 0 for the start
 	exact  bool  // h is the program's own value, not a bound inherited from the parent
 	closed bool
-	t      int32     // the transition of a model or synchronous move
-	sol    []lpEntry // the program's solution (column, value) when known, for reuse
+	t      int32  // the transition of a model or synchronous move
+	sol    solRef // the program's solution when known, for reuse
 }
+
+// solRef is a solution of the marking equation kept in the search's arena of (column, value)
+// entries: n entries from off, or none when n is −1. Nodes hold no pointers, so the garbage
+// collector does not walk the search's node table.
+type solRef struct {
+	off, n int32
+}
+
+var noSol = solRef{n: -1}
 
 const (
 	moveLog = iota + 1
@@ -258,15 +268,30 @@ type search struct {
 	index  map[string]int32
 	key    []byte
 	heap   []queueEntry
+	sols   []lpEntry // the arena of solutions (see solRef)
+	b      []float64 // the program's right-hand side, scratch
 	solves int
+}
+
+// reset readies the search for another trace, keeping its memory: an aligner aligns thousands
+// of variants one after the other.
+func (s *search) reset(trace []string) {
+	s.names = trace
+	s.trace = slices.Grow(s.trace[:0], len(trace))[:len(trace)]
+	s.cost = slices.Grow(s.cost[:0], len(trace))[:len(trace)]
+	s.u = slices.Grow(s.u[:0], len(trace)+1)[:len(trace)+1]
+	s.u[len(trace)] = 0
+	s.nodes, s.marks, s.heap, s.sols = s.nodes[:0], s.marks[:0], s.heap[:0], s.sols[:0]
+	clear(s.index)
 }
 
 func (al *aligner) align(trace []string, bound Bound) (*Alignment, error) {
 	a := al
-	s := &search{a: a, names: trace, index: map[string]int32{}}
-	s.trace = make([]int32, len(trace))
-	s.cost = make([]int32, len(trace))
-	s.u = make([]int32, len(trace)+1)
+	if a.search == nil {
+		a.search = &search{a: a, index: map[string]int32{}, b: make([]float64, len(a.keep))}
+	}
+	s := a.search
+	s.reset(trace)
 	for i := len(trace) - 1; i >= 0; i-- {
 		s.cost[i] = int32(a.costs.logCost(trace[i]))
 		s.u[i] = s.u[i+1]
@@ -282,7 +307,7 @@ func (al *aligner) align(trace []string, bound Bound) (*Alignment, error) {
 		deadline = time.Now().Add(bound.Time)
 	}
 	P := a.places
-	s.add(-1, a.initial, 0, 0, s.u[0], false, nil, 0, 0)
+	s.add(-1, a.initial, 0, 0, s.u[0], false, noSol, 0, 0)
 	expanded := 0
 	next := make([]uint8, P)
 	for len(s.heap) > 0 {
@@ -325,10 +350,9 @@ func (al *aligner) align(trace []string, bound Bound) (*Alignment, error) {
 		if i < len(trace) {
 			c := s.cost[i]
 			if l := s.trace[i]; l < 0 {
-				s.add(k, mk, i+1, g+c, h-c, sol != nil, sol, moveLog, -1)
+				s.add(k, mk, i+1, g+c, h-c, sol.n >= 0, sol, moveLog, -1)
 			} else {
-				col := a.colW[l]
-				child, ok := reuse(sol, col)
+				child, ok := s.reuse(sol, a.colW[l])
 				s.add(k, mk, i+1, g+c, h-c, ok, child, moveLog, -1)
 			}
 		}
@@ -345,10 +369,10 @@ func (al *aligner) align(trace []string, bound Bound) (*Alignment, error) {
 				next[d.p] = uint8(v)
 			}
 			c := int32(a.modelCost[t])
-			child, ok := reuse(sol, a.colZ[t])
+			child, ok := s.reuse(sol, a.colZ[t])
 			s.add(k, next, i, g+c, h-c, ok, child, moveModel, int32(t))
 			if i < len(trace) && a.label[t] >= 0 && a.label[t] == s.trace[i] {
-				child, ok := reuse(sol, a.colS[t])
+				child, ok := s.reuse(sol, a.colS[t])
 				s.add(k, next, i+1, g, h, ok, child, moveSync, int32(t))
 			}
 		}
@@ -366,25 +390,40 @@ func enabled(m []uint8, need []placeCount) bool {
 }
 
 // reuse returns the parent's solution with one less of column col, if the solution has it.
-func reuse(sol []lpEntry, col int) ([]lpEntry, bool) {
-	for k, e := range sol {
-		if e.i == col {
+func (s *search) reuse(sol solRef, col int) (solRef, bool) {
+	if sol.n < 0 {
+		return noSol, false
+	}
+	at := -1
+	for k := int32(0); k < sol.n; k++ {
+		if e := s.sols[sol.off+k]; e.i == col {
 			if e.v < 1-1e-6 {
-				return nil, false
+				return noSol, false
 			}
-			out := slices.Clone(sol)
-			if out[k].v -= 1; out[k].v < 1e-6 {
-				out = slices.Delete(out, k, k+1)
-			}
-			return out, true
+			at = int(k)
+			break
 		}
 	}
-	return nil, false
+	if at < 0 {
+		return noSol, false
+	}
+	out := solRef{off: int32(len(s.sols))}
+	for k := int32(0); k < sol.n; k++ {
+		e := s.sols[sol.off+k]
+		if int(k) == at {
+			if e.v -= 1; e.v < 1e-6 {
+				continue
+			}
+		}
+		s.sols = append(s.sols, e)
+		out.n++
+	}
+	return out, true
 }
 
 // add reaches state (m, i) from node parent with cost g. h is the bound the parent passes on
 // (exact when exact is true, with sol the solution behind it), never below u[i].
-func (s *search) add(parent int32, m []uint8, i int, g, h int32, exact bool, sol []lpEntry, kind uint8, t int32) {
+func (s *search) add(parent int32, m []uint8, i int, g, h int32, exact bool, sol solRef, kind uint8, t int32) {
 	h = max(h, s.u[i])
 	s.key = append(append(s.key[:0], m...), byte(i), byte(i>>8), byte(i>>16))
 	if k, ok := s.index[string(s.key)]; ok {
@@ -408,7 +447,7 @@ func (s *search) add(parent int32, m []uint8, i int, g, h int32, exact bool, sol
 
 // bound solves the marking equation for marking m with the events from i on still to explain.
 // ok is false when the solver gave up (the caller keeps the bound it has).
-func (s *search) bound(m []uint8, i int) (float64, []lpEntry, bool) {
+func (s *search) bound(m []uint8, i int) (float64, solRef, bool) {
 	a := s.a
 	P := a.places
 	rhs := a.rhs
@@ -421,22 +460,23 @@ func (s *search) bound(m []uint8, i int) (float64, []lpEntry, bool) {
 			rhs[P+int(l)]++
 		}
 	}
-	b := make([]float64, len(a.keep))
+	b := s.b
 	for k, r := range a.keep {
 		b[k] = rhs[r]
 	}
 	s.solves++
 	v := a.prog.solve(b)
 	if math.IsInf(v, -1) {
-		return 0, nil, false
+		return 0, noSol, false
 	}
 	if math.IsInf(v, 1) {
-		return v, nil, false
+		return v, noSol, false
 	}
-	var sol []lpEntry
+	sol := solRef{off: int32(len(s.sols))}
 	for r, j := range a.prog.basic {
 		if x := a.prog.x[r]; j < a.prog.n && x > 1e-6 {
-			sol = append(sol, lpEntry{j, x})
+			s.sols = append(s.sols, lpEntry{j, x})
+			sol.n++
 		}
 	}
 	return v, sol, true

@@ -32,6 +32,12 @@ type lp struct {
 	// pivots counts pivots since the last refactorisation.
 	pivots int
 	ready  bool
+	// lastB is the b that x was priced for; the next solve prices only the difference, since
+	// nodes solved one after another are usually neighbours with nearly the same b. fresh is false
+	// until x has been priced in full since the last refactorisation.
+	lastB  []float64
+	fresh  bool
+	priced int // incremental pricings since the last full one
 	// scratch
 	u, alpha []float64
 }
@@ -76,6 +82,7 @@ func newLP(rows int, cols [][]lpEntry, c []float64) (p *lp, keep []int) {
 	p.u = make([]float64, p.m)
 	p.alpha = make([]float64, p.n+p.m)
 	p.art = make([]float64, p.m)
+	p.lastB = make([]float64, p.m)
 	return p, keep
 }
 
@@ -191,18 +198,29 @@ func (p *lp) pivot(r, q int, u []float64) {
 	p.pivots++
 }
 
-// price sets x = B⁻¹ b.
+// price sets x = B⁻¹ b: in full after a refactorisation, else as x + B⁻¹ (b − lastB), which is
+// the same while x = B⁻¹ lastB holds (pivots keep it) and touches only the entries that changed.
 func (p *lp) price(b []float64) {
 	m := p.m
-	clear(p.x)
+	if p.priced++; p.priced > 1000 {
+		p.fresh = false // bound the rounding that incremental updates build up
+	}
+	if !p.fresh {
+		p.priced = 0
+		clear(p.x)
+		clear(p.lastB)
+		p.fresh = true
+	}
 	for k, v := range b {
-		if v == 0 {
+		d := v - p.lastB[k]
+		if d == 0 {
 			continue
 		}
 		for i := 0; i < m; i++ {
-			p.x[i] += p.binv[i*m+k] * v
+			p.x[i] += p.binv[i*m+k] * d
 		}
 	}
+	copy(p.lastB, b)
 }
 
 // reducedCosts sets d_j = c_j − c_B B⁻¹ a_j for every column, with cost(j) the cost in use.
@@ -289,6 +307,7 @@ func (p *lp) refactor() bool {
 		}
 	}
 	p.pivots = 0
+	p.fresh = false
 	return true
 }
 
@@ -318,6 +337,7 @@ func (p *lp) start(b []float64) bool {
 		p.binv[i*m+i] = p.art[i] // B = diag(art) is its own inverse
 	}
 	p.pivots = 0
+	p.fresh = false
 	p.price(b)
 	phase1 := func(j int) float64 {
 		if j >= p.n {

@@ -51,7 +51,7 @@ func TestMarkingEquationAgainstGonum(t *testing.T) {
 				}
 			}
 			trace := traces[r.IntN(len(traces))]
-			s := &search{a: a, trace: make([]int32, len(trace))}
+			s := &search{a: a, trace: make([]int32, len(trace)), b: make([]float64, len(a.keep))}
 			for i, x := range trace {
 				s.trace[i] = a.labelOf[x]
 			}
