@@ -620,7 +620,7 @@
     if (kind === 'longer' && arg && !/[a-z]$/.test(arg)) arg += 'd';
     const ends = [...$('fc-ends').querySelectorAll('input:checked')].map((i) => i.value);
     const opts = { abstraction: $('fc-abs').value, horizon: Number($('fc-horizon').value), kfold: 5,
-      outcome: kind && arg ? kind + ':' + arg : '', export_date: $('fc-export').value, end_activities: ends };
+      outcome: kind && arg ? kind + ':' + arg : '', export_date: $('fc-export').value, end_activities: ends, attribute: $('fc-attr').value };
     $('fc-eval').replaceChildren(el('p', { class: 'muted', text: 'Measuring on past cases…' }));
     try {
       const { done } = await call('forecast', opts);
@@ -642,9 +642,50 @@
       box.append(el('label', {}, cb, ' ' + a));
     }
   }
+  function renderAttrs(f) {
+    const sel = $('fc-attr');
+    if (sel.options.length > 1) return;
+    for (const a of f.case_attributes) sel.append(el('option', { value: a, text: 'cases by ' + a }));
+  }
+  // showCase fills the detail of one open case: the forecast with its basis and past error, the
+  // next steps, and the case's events so far (fetched from the engine).
+  async function showCase(r) {
+    const f = forecast, fc = r.forecast, box = $('fc-detail');
+    const row = (k, v) => [el('dt', { text: k }), el('dd', { text: v })];
+    const past = (f.evaluation.by_prefix_length || []).find((x) => x.events === Math.min(r.events, 20));
+    const basis = !fc.fallback ? 'past moments in the same state' : fc.horizon > 0
+      ? 'past moments with the same last ' + fc.horizon + ' steps (no past case was in this exact state)'
+      : 'past moments of any kind (no past case was in a similar state)';
+    const dl = el('dl', {}, ...row('Steps so far', r.events + ', the last ' + r.last_activity + ' on ' + r.last_event.slice(0, 10)),
+      ...row('Expected finish', r.expected_finish.slice(0, 10) + ' (in ' + duration(fc.median_seconds) + '; on average ' + duration(fc.mean_seconds) + ')'),
+      ...row('80% range', r.finish_low.slice(0, 10) + ' to ' + r.finish_high.slice(0, 10)),
+      ...row('Based on', fmtInt(fc.support) + ' ' + basis),
+      ...(past ? row('Past error at ' + past.events + (past.events === 20 ? '+' : '') + ' steps', past.mae_days.toFixed(2) + ' days on average; ' + pct(past.coverage) + ' fell inside the range') : []),
+      ...(f.outcome ? row('Chance: ' + f.outcome, pct(fc.outcome_probability)) : []));
+    const next = Object.entries(fc.next).concat([['(finish)', fc.end_probability]]).filter(([, p]) => p > 0).sort((a, b) => b[1] - a[1]);
+    const bars = el('ul', { class: 'bars' });
+    for (const [a, p] of next) {
+      const bar = el('span', { class: 'bar' });
+      bar.style.setProperty('--w', (100 * p).toFixed(1) + '%'); // through CSSOM: the policy forbids style attributes
+      bars.append(el('li', {}, el('span', { class: 'bar-label', text: a }), bar, el('span', { class: 'num', text: pct(p) })));
+    }
+    const events = el('tbody');
+    box.replaceChildren(el('h4', { id: 'fc-detail-title', text: 'Case ' + r.case }), dl, el('h5', { text: 'What may come next' }), bars,
+      el('h5', { text: 'Events so far' }), el('div', { class: 'table-wrap' }, el('table', {}, el('thead', {}, el('tr', {}, el('th', { text: 'Time (UTC)' }), el('th', { text: 'Activity' }), el('th', { text: 'Lifecycle' }))), events)));
+    box.hidden = false;
+    box.scrollIntoView({ block: 'nearest' });
+    try {
+      const { done } = await call('case_events', { case: r.case });
+      const ce = await done;
+      for (const e of ce.events) events.append(el('tr', {}, el('td', { text: e.time ? e.time.replace('T', ' ').replace('Z', '') : '(no time)' }), el('td', { text: e.activity }), el('td', { text: e.lifecycle || '' })));
+      box.dataset.ready = 'true';
+    } catch (err) { events.append(el('tr', {}, el('td', { class: 'bad', text: err.message || String(err) }))); }
+  }
   function renderForecast() {
     const f = forecast, ev = f.evaluation;
     renderEnds(f);
+    renderAttrs(f);
+    $('fc-detail').hidden = true;
     const figs = el('div', { class: 'figures' });
     const fig = (metric, label, value) => figs.append(el('div', { class: 'figure', 'data-metric': metric, 'data-value': String(value) },
       el('span', { class: 'value', text: label[0] }), el('span', { class: 'label', text: label[1] })));
@@ -662,7 +703,8 @@
       el('div', { class: 'table-wrap' }, el('table', {}, el('thead', {}, el('tr', {}, el('th', { class: 'num', text: 'Steps' }), el('th', { class: 'num', text: 'Moments tested' }),
         el('th', { class: 'num', text: 'Error (d)' }), el('th', { class: 'num', text: 'Plain average (d)' }), el('th', { class: 'num', text: 'Inside the range' }))), rows)));
     const chosen = f.choices ? ' The states were chosen by measurement: ' + f.config.abstraction + ' over ' + (f.config.horizon ? 'the last ' + f.config.horizon + ' activities' : 'the whole case so far') + '.' : '';
-    const how = el('p', { class: 'muted small', text: chosen + ' Trained on ' + fmtInt(ev.train_cases) + ' cases that ended before ' + ev.cut_date.slice(0, 10) +
+    const refined = f.config.attribute ? ' States also tell cases apart by ' + f.config.attribute + '.' : '';
+    const how = el('p', { class: 'muted small', text: chosen + refined + ' Trained on ' + fmtInt(ev.train_cases) + ' cases that ended before ' + ev.cut_date.slice(0, 10) +
       ', tested on ' + fmtInt(ev.test_prefixes) + ' moments of ' + fmtInt(ev.test_cases) + ' cases that were open then.' +
       (f.kfold ? ' Across 5 folds of all finished cases: error ' + f.kfold.mae_days.toFixed(2) + ' d, ' + pct(f.kfold.coverage) + ' inside the range.' : '') +
       ' A case is finished when it reaches ' + f.end_activities.join(', ') + '; one silent for more than ' + f.inactive_after_days.toFixed(0) + ' days counts as abandoned (' + fmtInt(f.abandoned_cases) + ').' });
@@ -680,7 +722,9 @@
       let next = 'finish', best = fc.end_probability;
       for (const [a, p] of Object.entries(fc.next)) if (p > best) { best = p; next = a; }
       const note = fc.fallback ? ' (from the last ' + (fc.horizon > 0 ? fc.horizon + ' steps' : 'nothing') + ': this path is new)' : '';
-      body.append(el('tr', {}, el('td', { text: r.case }), el('td', { text: r.last_activity }), el('td', { text: r.expected_finish.slice(0, 10) + note }),
+      const pick = el('button', { type: 'button', class: 'linkish', text: r.case, 'aria-label': 'Detail of case ' + r.case });
+      pick.addEventListener('click', () => showCase(r));
+      body.append(el('tr', {}, el('td', {}, pick), el('td', { text: r.last_activity }), el('td', { text: r.expected_finish.slice(0, 10) + note }),
         el('td', { text: r.finish_low.slice(0, 10) + ' to ' + r.finish_high.slice(0, 10) }), el('td', { text: next + ' (' + pct(best) + ')' }),
         f.outcome ? el('td', { class: 'num', text: pct(fc.outcome_probability) }) : null));
     }

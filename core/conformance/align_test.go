@@ -207,6 +207,25 @@ func TestGeneratedAlignmentsAgainstDijkstra(t *testing.T) {
 	assert.Greater(t, checked, 250)
 }
 
+// TestBenchmarkModelsAgainstDijkstra: the same check on the two smaller models of
+// BenchmarkAlignVariants (21 and 41 transitions), 40 cases each at 10% noise, so the optimality
+// its figures claim is checked on the very models they are measured on.
+func TestBenchmarkModelsAgainstDijkstra(t *testing.T) {
+	for _, acts := range []int{14, 25} {
+		g := newGeneratedModel(uint64(acts), acts)
+		al, err := newAligner(g.net, Costs{})
+		require.NoError(t, err)
+		noisy, _ := g.variants(7, 40, 0.1)
+		for _, tr := range noisy {
+			want := syncProductCost(t, g.net, tr)
+			require.GreaterOrEqual(t, want, 0.0, "the reference explores the product in full")
+			res, err := al.align(tr, Bound{States: 200000})
+			require.NoError(t, err)
+			assert.Equal(t, want, float64(res.Cost), "%d transitions, %v", len(g.net.Transitions), tr)
+		}
+	}
+}
+
 func TestBoundIsReported(t *testing.T) {
 	n := netOf(t, "∧(a, b, c, d, e, f)")
 	_, err := Align(n, []string{"x", "y", "z", "x", "y", "z"}, Costs{}, Bound{States: 10})

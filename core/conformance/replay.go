@@ -1,19 +1,3 @@
-// Package conformance compares an event log with a process model (a Petri net) and says where
-// practice departs from it.
-//
-// Token-based replay (Rozinat and van der Aalst, "Conformance checking of processes based on
-// monitoring real behavior", Information Systems 33(1), 2008) plays each trace on the net: an
-// event fires a transition with its activity as label; a transition that is not enabled is first
-// enabled by the shortest sequence of silent transitions that does it (breadth first over
-// markings, bounded), else the missing tokens are created and counted. At the end the silent
-// transitions may run to the final marking, whose tokens are then consumed; tokens left are
-// remaining. With p produced, c consumed, m missing and r remaining tokens (counting the tokens of
-// the initial marking as produced and of the final marking as consumed), fitness is
-// ½(1 − m/c) + ½(1 − r/p), for one trace or summed over the log (weighted by how often each trace
-// occurs: the log's fitness is not the mean of the traces').
-//
-// Events whose activity no transition carries cannot be replayed; they are passed over and
-// counted, and the activities and labels that do not match are listed.
 package conformance
 
 import (

@@ -125,6 +125,8 @@ func (e *Engine) Handle(ctx context.Context, req Request, file *File, emit func(
 		payload, err = e.model(req.Payload)
 	case "flow_detail":
 		payload, err = e.flowDetail(req.Payload)
+	case "case_events":
+		payload, err = e.caseEvents(req.Payload)
 	case "forecast":
 		payload, err = e.forecast(req.Payload)
 	case "conformance":
@@ -540,6 +542,47 @@ func (e *Engine) flowDetail(raw json.RawMessage) ([]dfg.CaseRef, error) {
 
 var isoDay, _ = timestamp.ParseFormat("YYYY-MM-DD[Thh:mm[:ss[.f]][Z]]")
 
+// CaseEvents is one case's events in time order, for a forecast's detail. Resources are left
+// out: the detail is about the case, not about who worked on it.
+type CaseEvents struct {
+	Case   string      `json:"case"`
+	Events []CaseEvent `json:"events"`
+}
+
+// CaseEvent is one event of CaseEvents; Time is RFC 3339 UTC, "" when the event has none.
+type CaseEvent struct {
+	Activity  string `json:"activity"`
+	Time      string `json:"time"`
+	Lifecycle string `json:"lifecycle,omitempty"`
+}
+
+func (e *Engine) caseEvents(raw json.RawMessage) (*CaseEvents, error) {
+	var p struct {
+		Case string `json:"case"`
+	}
+	if err := json.Unmarshal(raw, &p); err != nil {
+		return nil, fmt.Errorf("case_events: %w", err)
+	}
+	l, err := e.loaded()
+	if err != nil {
+		return nil, err
+	}
+	c, ok := l.Cases.Lookup(p.Case)
+	if !ok {
+		return nil, fmt.Errorf("the log has no case %q", p.Case)
+	}
+	out := &CaseEvents{Case: p.Case, Events: []CaseEvent{}}
+	from, to := l.Events(int(c))
+	for i := from; i < to; i++ {
+		ev := CaseEvent{Activity: l.Activities.Name(l.Act[i]), Lifecycle: l.Lifecycles.Name(int32(l.Life[i]))}
+		if t := l.Time[i]; t != eventlog.NoTime {
+			ev.Time = timestamp.FormatRFC3339(t)
+		}
+		out.Events = append(out.Events, ev)
+	}
+	return out, nil
+}
+
 // ForecastOptions are the forecast view's settings.
 type ForecastOptions struct {
 	Abstraction string   `json:"abstraction"` // sequence (default), multiset, set, or auto (measured)
@@ -548,6 +591,8 @@ type ForecastOptions struct {
 	Outcome     string   `json:"outcome"` // ends:X, contains:X, longer:10d, or ""
 	End         []string `json:"end_activities"`
 	KFold       int      `json:"kfold"`
+	// Attribute names a case attribute whose value refines every state ("" for none).
+	Attribute string `json:"attribute"`
 }
 
 // ForecastResult is the evaluation beside the forecasts, as the page must show them together.
@@ -562,6 +607,7 @@ type ForecastResult struct {
 	Config        predict.Config            `json:"config"`
 	Choices       []predict.Choice          `json:"choices,omitempty"` // when the states were chosen by measurement
 	Activities    []string                  `json:"activities"`        // for the end-activity picker
+	CaseAttrs     []string                  `json:"case_attributes"`   // for the refinement picker
 	Running       []predict.RunningForecast `json:"running"`
 }
 
@@ -586,7 +632,10 @@ func (e *Engine) forecast(raw json.RawMessage) (*ForecastResult, error) {
 	if o.Horizon < 0 {
 		return nil, errors.New("the horizon is 0 (the whole prefix) or more")
 	}
-	opt := predict.Options{Config: predict.Config{Abstraction: a, Horizon: o.Horizon}}
+	if o.Attribute != "" && l.CaseAttr(o.Attribute) == nil {
+		return nil, fmt.Errorf("the log has no case attribute %q", o.Attribute)
+	}
+	opt := predict.Options{Config: predict.Config{Abstraction: a, Horizon: o.Horizon, Attribute: o.Attribute}}
 	if len(o.End) > 0 {
 		opt.EndActivities = o.End
 	}
@@ -597,7 +646,10 @@ func (e *Engine) forecast(raw json.RawMessage) (*ForecastResult, error) {
 		}
 		opt.Export = t
 	}
-	res := &ForecastResult{Activities: slices.Sorted(slices.Values(l.Activities.Names()))}
+	res := &ForecastResult{Activities: slices.Sorted(slices.Values(l.Activities.Names())), CaseAttrs: []string{}}
+	for _, c := range l.CaseAttrs {
+		res.CaseAttrs = append(res.CaseAttrs, c.Key)
+	}
 	if o.Outcome != "" {
 		if opt.Outcome, err = predict.ParseOutcome(o.Outcome); err != nil {
 			return nil, err

@@ -5,6 +5,7 @@ import (
 	"encoding/json"
 	"io"
 	"os"
+	"slices"
 	"strings"
 	"testing"
 	"time"
@@ -204,6 +205,26 @@ func TestForecast(t *testing.T) {
 	require.Equal(t, "result", r.Kind, "%v", r.Payload)
 	assert.Len(t, r.Payload.(*ForecastResult).Choices, 12)
 	r = e.Handle(context.Background(), req("forecast", 3, `{"outcome":"someday"}`), nil, nil)
+	assert.Equal(t, "error", r.Kind)
+
+	// refined by a case attribute; an attribute the log lacks is refused
+	r = e.Handle(context.Background(), req("forecast", 5, `{"attribute":"warranty"}`), nil, nil)
+	require.Equal(t, "result", r.Kind, "%v", r.Payload)
+	refined := r.Payload.(*ForecastResult)
+	assert.Equal(t, "warranty", refined.Config.Attribute)
+	assert.Contains(t, refined.CaseAttrs, "warranty")
+	r = e.Handle(context.Background(), req("forecast", 6, `{"attribute":"colour"}`), nil, nil)
+	assert.Equal(t, "error", r.Kind)
+
+	// the detail of a running case: its events so far, in time order
+	rc := f.Running[0]
+	r = e.Handle(context.Background(), req("case_events", 7, `{"case":"`+rc.Case+`"}`), nil, nil)
+	require.Equal(t, "result", r.Kind, "%v", r.Payload)
+	ce := r.Payload.(*CaseEvents)
+	require.NotEmpty(t, ce.Events)
+	assert.Equal(t, rc.Last, ce.Events[len(ce.Events)-1].Activity)
+	assert.True(t, slices.IsSortedFunc(ce.Events, func(a, b CaseEvent) int { return strings.Compare(a.Time, b.Time) }))
+	r = e.Handle(context.Background(), req("case_events", 8, `{"case":"no such case"}`), nil, nil)
 	assert.Equal(t, "error", r.Kind)
 }
 

@@ -428,6 +428,7 @@ func TestForecastView(t *testing.T) {
 		chromedp.WaitVisible(chromedp.CSS(`#forecast[data-ready="true"] #fc-list tbody tr`)),
 		chromedp.SetValue(chromedp.CSS(`#fc-outcome-kind`), "ends"),
 		chromedp.SetValue(chromedp.CSS(`#fc-outcome-arg`), "Hand over bike"),
+		chromedp.SetValue(chromedp.CSS(`#fc-attr`), "warranty"),
 		chromedp.Click(chromedp.CSS(`#fc-run`)),
 		chromedp.WaitVisible(chromedp.CSS(`#fc-eval [data-metric="auc"]`)),
 	))
@@ -435,9 +436,28 @@ func TestForecastView(t *testing.T) {
 	for _, k := range []string{"mae_days", "baseline_mae_days", "coverage", "auc"} {
 		assert.NotEmpty(t, got[k], k)
 	}
+	how, err := chromedp.Run(ctx, chromedp.Text(chromedp.CSS(`#fc-eval p.muted`)))
+	require.NoError(t, err)
+	assert.Contains(t, how, "apart by warranty")
 	caution, err := chromedp.Run(ctx, chromedp.Text(chromedp.CSS(`#forecast .notice`)))
 	require.NoError(t, err)
 	assert.Contains(t, caution, "not guarantees")
+
+	// one case's detail: the forecast's basis, the next steps as bars, the events so far
+	require.NoError(t, chromedp.Do(ctx,
+		chromedp.Click(chromedp.CSS(`#fc-list tbody tr button`)),
+		chromedp.WaitVisible(chromedp.CSS(`#fc-detail[data-ready="true"] tbody tr`)),
+	))
+	detail, err := chromedp.Run(ctx, chromedp.Evaluate[string](`(() => {
+		const d = document.getElementById('fc-detail');
+		const bar = d.querySelector('.bar').getBoundingClientRect().width;
+		return d.textContent + '|bar:' + (bar > 0) + '|events:' + d.querySelectorAll('tbody tr').length;
+	})()`))
+	require.NoError(t, err)
+	assert.Contains(t, detail, "Expected finish")
+	assert.Contains(t, detail, "Based on")
+	assert.Contains(t, detail, "|bar:true", "the bars have their widths under the page's policy")
+	assert.NotContains(t, detail, "|events:0")
 	shot(t, ctx, "forecast")
 	assert.Empty(t, rl.outgoing("file://"+html))
 	assert.Empty(t, rl.failures)
