@@ -9,6 +9,8 @@ import (
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
+	"gonum.org/v1/gonum/integrate/quad"
+	"gonum.org/v1/gonum/stat/distuv"
 	"gonum.org/v1/gonum/integrate"
 	"gonum.org/v1/gonum/stat"
 
@@ -93,6 +95,45 @@ func TestConvergesToAnalyticMean(t *testing.T) {
 		errs = append(errs, math.Abs(p.MeanSeconds-want)/want)
 	}
 	assert.Less(t, errs[2], 0.05, "relative errors by size: %v", errs)
+	assert.Less(t, errs[2], errs[0], "more data, closer: %v", errs)
+}
+
+// TestConvergesToAnalyticMedian: the same state, the median this time. The remaining time is
+// W + S with W exponential (mean 24 h) and S lognormal (mean 20 min, shape 0.4; synth.Activities);
+// its distribution function is F(t) = ∫₀ᵗ f_S(s) (1 − e^(−(t−s)/24h)) ds, integrated with gonum's
+// Gauss–Legendre quadrature (integrate/quad) over gonum's densities (stat/distuv), and its median
+// found by bisection. The median of the state's remaining times must approach it as the log grows.
+func TestConvergesToAnalyticMedian(t *testing.T) {
+	ret := synth.Activities[synth.Return]
+	wait := distuv.Exponential{Rate: 1 / ret.Wait.Seconds()}
+	sigma := ret.Sigma
+	service := distuv.LogNormal{Mu: math.Log(ret.Service.Seconds()) - sigma*sigma/2, Sigma: sigma}
+	cdf := func(x float64) float64 {
+		return quad.Fixed(func(s float64) float64 { return service.Prob(s) * wait.CDF(x-s) }, 0, x, 2000, quad.Legendre{}, 0)
+	}
+	lo, hi := 0.0, 10*ret.Wait.Seconds()
+	for hi-lo > 1 {
+		if mid := (lo + hi) / 2; cdf(mid) < 0.5 {
+			lo = mid
+		} else {
+			hi = mid
+		}
+	}
+	want := (lo + hi) / 2
+	// a sanity check of the integration: without the service time the median is 24 h · ln 2
+	require.InDelta(t, ret.Wait.Seconds()*math.Ln2+ret.Service.Seconds(), want, 0.05*want)
+	var errs []float64
+	for _, events := range []int{5000, 50000, 300000} {
+		l := generated(t, synth.Config{Seed: 11, Events: events, Shifts: false})
+		part := Split(l, Options{})
+		sys, err := Build(l, part.Completed, Config{Horizon: 1}, nil)
+		require.NoError(t, err)
+		id, _ := l.Activities.Lookup("Reject claim")
+		p := sys.Predict([]int32{id}, "")
+		errs = append(errs, math.Abs(p.MedianSeconds-want)/want)
+	}
+	t.Logf("analytic median %.0f s; relative errors by size: %v", want, errs)
+	assert.Less(t, errs[2], 0.05, "relative errors by size: %v (analytic median %.0f s)", errs, want)
 	assert.Less(t, errs[2], errs[0], "more data, closer: %v", errs)
 }
 
