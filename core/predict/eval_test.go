@@ -9,10 +9,10 @@ import (
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
-	"gonum.org/v1/gonum/integrate/quad"
-	"gonum.org/v1/gonum/stat/distuv"
 	"gonum.org/v1/gonum/integrate"
+	"gonum.org/v1/gonum/integrate/quad"
 	"gonum.org/v1/gonum/stat"
+	"gonum.org/v1/gonum/stat/distuv"
 
 	"tracewright/core/eventlog"
 	"tracewright/core/intake"
