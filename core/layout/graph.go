@@ -51,34 +51,6 @@ type Result struct {
 	order     map[string]float64 // position of each key within its rank, for stability
 }
 
-// Crossings counts the pairs of edge segments that cross between adjacent ranks of a layered
-// drawing (each long edge counted once per segment), the measure the benchmarks compare.
-func countCrossings(layers [][]int, pos []int, segs [][2]int, rank []int) int {
-	// group segments by upper rank
-	by := map[int][][2]int{}
-	for _, s := range segs {
-		a, b := s[0], s[1]
-		if rank[a] > rank[b] {
-			a, b = b, a
-		}
-		by[rank[a]] = append(by[rank[a]], [2]int{a, b})
-	}
-	total := 0
-	for _, list := range by {
-		for i := 0; i < len(list); i++ {
-			for j := i + 1; j < len(list); j++ {
-				a, b := list[i], list[j]
-				u := pos[a[0]] - pos[b[0]]
-				l := pos[a[1]] - pos[b[1]]
-				if u*l < 0 {
-					total++
-				}
-			}
-		}
-	}
-	return total
-}
-
 func (o *Options) defaults() {
 	if o.NodeSep <= 0 {
 		o.NodeSep = 24

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strconv"
 )
 
 // Layout draws the graph (see the package doc).
@@ -33,10 +34,23 @@ func Layout(g Graph, opt Options) (*Result, error) {
 		}
 		return e.To, e.From, true
 	})
+	// the nodes' keys, and for the dummy nodes of long edges the key of their edge and place, so
+	// that a layout seeded with a previous one finds its whole order again, bends included
+	var keyOf []string
+	if opt.Keys != nil {
+		keyOf = make([]string, L.n)
+		copy(keyOf, opt.Keys)
+		for i, e := range g.Edges {
+			c := L.chains[i]
+			for k := 1; k+1 < len(c); k++ {
+				keyOf[c[k]] = opt.Keys[e.From] + "\x00" + opt.Keys[e.To] + "\x00" + strconv.Itoa(k)
+			}
+		}
+	}
 	var seed []float64
-	if opt.Previous != nil && opt.Keys != nil && opt.Previous.order != nil {
-		seed = make([]float64, n)
-		for v, k := range opt.Keys {
+	if opt.Previous != nil && keyOf != nil && opt.Previous.order != nil {
+		seed = make([]float64, L.n)
+		for v, k := range keyOf {
 			seed[v] = -1
 			if p, ok := opt.Previous.order[k]; ok {
 				seed[v] = p
@@ -120,10 +134,10 @@ func Layout(g Graph, opt Options) (*Result, error) {
 			}
 		}
 	}
-	if opt.Keys != nil {
+	if keyOf != nil {
 		res.order = map[string]float64{}
-		for v := 0; v < n; v++ {
-			res.order[opt.Keys[v]] = float64(L.pos[v]) / float64(max(1, len(L.layers[L.rank[v]])))
+		for v, k := range keyOf {
+			res.order[k] = float64(L.pos[v]) / float64(max(1, len(L.layers[L.rank[v]])))
 		}
 	}
 	return res, nil

@@ -1,6 +1,8 @@
 package layout
 
 import (
+	"cmp"
+	"math/rand/v2"
 	"slices"
 	"sort"
 )
@@ -18,6 +20,11 @@ type layered struct {
 	chains [][]int  // per input edge: its nodes from the upper end to the lower end
 	flip   []bool   // per input edge: drawn against the DAG's direction
 	width  []float64
+	// scratch of crossings and medianSweep
+	byRank [][][2]int
+	tree   []int
+	med    []float64
+	ps     []int
 }
 
 // build adds dummy chains for every input edge (self-loops get none).
@@ -120,7 +127,59 @@ func (L *layered) reindex() {
 	}
 }
 
-func (L *layered) crossings() int { return countCrossings(L.layers, L.pos, L.segs, L.rank) }
+// crossings counts the crossings between adjacent ranks by the accumulator tree of Barth, Jünger
+// and Mutzel ("Simple and efficient bilayer cross counting", JGAA 8(2), 2004): the segments of a
+// rank pair, sorted by upper then lower position, cross exactly as often as the sequence of their
+// lower positions has inversions, which a binary tree over the lower rank counts in
+// O(E log V). The median sweeps call it after every sweep, and the order search thousands of
+// times, so it reuses its buffers.
+func (L *layered) crossings() int {
+	if L.byRank == nil {
+		L.byRank = make([][][2]int, len(L.layers))
+		for _, sg := range L.segs {
+			a, b := sg[0], sg[1]
+			if L.rank[a] > L.rank[b] {
+				a, b = b, a
+			}
+			L.byRank[L.rank[a]] = append(L.byRank[L.rank[a]], [2]int{a, b})
+		}
+	}
+	total := 0
+	for r, list := range L.byRank {
+		if len(list) < 2 || r+1 >= len(L.layers) {
+			continue
+		}
+		slices.SortFunc(list, func(x, y [2]int) int {
+			if d := L.pos[x[0]] - L.pos[y[0]]; d != 0 {
+				return d
+			}
+			return L.pos[x[1]] - L.pos[y[1]]
+		})
+		q := len(L.layers[r+1])
+		first := 1
+		for first < q {
+			first *= 2
+		}
+		tree := L.tree[:0]
+		for range 2*first - 1 {
+			tree = append(tree, 0)
+		}
+		first--
+		for _, sg := range list {
+			i := L.pos[sg[1]] + first
+			tree[i]++
+			for i > 0 {
+				if i%2 == 1 {
+					total += tree[i+1]
+				}
+				i = (i - 1) / 2
+				tree[i]++
+			}
+		}
+		L.tree = tree
+	}
+	return total
+}
 
 // medianValue is the weighted median of the neighbours' positions (Gansner et al. 1993, figure
 // 3-2), or -1 for a node without neighbours there.
@@ -145,7 +204,11 @@ func medianValue(ps []int) float64 {
 
 // order runs median sweeps with transposition and keeps the order with the fewest crossings. As
 // dot does, it starts twice when there is no seed (from the breadth-first order and from a
-// depth-first one) and lets transposition swap on ties every other sweep, to leave plateaus.
+// depth-first one) and lets transposition swap on ties every other sweep, to leave plateaus. Each
+// start ends with sifting, which keeps improving where median sweeps stall. Then, as an iterated
+// local search, the best order is shaken a few times (one rank's nodes shuffled with a seeded
+// source, so the result depends on the graph alone) and polished again; a shaken order that ends
+// with fewer crossings replaces the best.
 func (L *layered) order(sweeps int, seeded bool) {
 	starts := [][][]int{cloneLayers(L.layers)}
 	if !seeded {
@@ -153,7 +216,7 @@ func (L *layered) order(sweeps int, seeded bool) {
 	}
 	best := -1
 	var bestLayers [][]int
-	for _, start := range starts {
+	polish := func(start [][]int, sweeps int) {
 		L.layers = cloneLayers(start)
 		L.reindex()
 		if c := L.crossings(); best < 0 || c < best {
@@ -166,21 +229,37 @@ func (L *layered) order(sweeps int, seeded bool) {
 				best, bestLayers = c, cloneLayers(L.layers)
 			}
 		}
+		L.layers = cloneLayers(bestLayers)
+		L.reindex()
+		for round := 0; round < 8 && best > 0; round++ {
+			L.sift()
+			c := L.crossings()
+			if c >= best {
+				break
+			}
+			best, bestLayers = c, cloneLayers(L.layers)
+		}
+	}
+	for _, start := range starts {
+		polish(start, sweeps)
+	}
+	r := rand.New(rand.NewPCG(uint64(L.n), uint64(len(L.segs))))
+	for shake := 0; shake < shakes && best > 0 && !seeded; shake++ {
+		start := cloneLayers(bestLayers)
+		layer := start[r.IntN(len(start))]
+		if len(layer) > 6 { // shuffle a window of six, so the kick stays local
+			at := r.IntN(len(layer) - 5)
+			layer = layer[at : at+6]
+		}
+		r.Shuffle(len(layer), func(i, j int) { layer[i], layer[j] = layer[j], layer[i] })
+		polish(start, sweeps/2)
 	}
 	L.layers = bestLayers
 	L.reindex()
-	// finish with sifting, which keeps improving where median sweeps stall
-	for round := 0; round < 8 && best > 0; round++ {
-		L.sift()
-		c := L.crossings()
-		if c >= best {
-			L.layers = bestLayers
-			L.reindex()
-			break
-		}
-		best, bestLayers = c, cloneLayers(L.layers)
-	}
 }
+
+// shakes is how many times the best order is shaken and polished again.
+const shakes = 40
 
 // sift moves each node, busiest first, to the place in its rank where it crosses least with the
 // ranks on both sides (Matuszewski, Schönfeld and Molitor, "Using sifting for k-layer straightline
@@ -259,25 +338,26 @@ func cloneLayers(ls [][]int) [][]int {
 }
 
 func (L *layered) medianSweep(down bool) {
-	rs := make([]int, 0, len(L.layers))
-	for r := range L.layers {
-		rs = append(rs, r)
+	if L.med == nil {
+		L.med = make([]float64, L.n)
 	}
-	if !down {
-		slices.Reverse(rs)
-	}
-	for _, r := range rs[1:] {
+	med := L.med
+	for k := 1; k < len(L.layers); k++ {
+		r := k
+		if !down {
+			r = len(L.layers) - 1 - k
+		}
 		layer := L.layers[r]
-		med := make(map[int]float64, len(layer))
 		for _, v := range layer {
 			nb := L.up[v]
 			if !down {
 				nb = L.down[v]
 			}
-			ps := make([]int, len(nb))
-			for i, u := range nb {
-				ps[i] = L.pos[u]
+			ps := L.ps[:0]
+			for _, u := range nb {
+				ps = append(ps, L.pos[u])
 			}
+			L.ps = ps
 			med[v] = medianValue(ps)
 		}
 		// nodes without neighbours keep their places; the others are sorted by median
@@ -287,12 +367,12 @@ func (L *layered) medianSweep(down bool) {
 				movable = append(movable, v)
 			}
 		}
-		sort.SliceStable(movable, func(i, j int) bool { return med[movable[i]] < med[movable[j]] })
-		k := 0
+		slices.SortStableFunc(movable, func(a, b int) int { return cmp.Compare(med[a], med[b]) })
+		j := 0
 		for i, v := range layer {
 			if med[v] >= 0 {
-				layer[i] = movable[k]
-				k++
+				layer[i] = movable[j]
+				j++
 			}
 		}
 		for i, v := range layer {
