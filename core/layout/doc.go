@@ -3,24 +3,30 @@
 // slow in the browser (about 5 s for a 41-node graph, a stack overflow at 80 nodes).
 //
 // The steps follow Gansner, Koutsofios, North and Vo, "A technique for drawing directed graphs"
-// (IEEE TSE 1993), except the third:
+// (IEEE TSE 1993):
 //
 //  1. Cycles are broken by reversing the back edges of a depth-first search from the nodes in
-//     input order (section 2.1), so the flow from the first node (the start of cases) is kept.
-//  2. Ranks come from the network simplex method (Gansner et al. section 2.3): a feasible tree
-//     of tight edges, cut values, and exchanges of a negative-cut tree edge for the tightest
-//     non-tree edge across the cut until no cut value is negative; ranks are normalised to start
-//     at 0. Edge weights make heavy edges short.
+//     input order, each node's edges in input order (section 2.1), so the flow from the first
+//     node (the start of cases) is kept.
+//  2. Ranks come from the network simplex method (section 2.3): a feasible tree of tight edges,
+//     cut values, and exchanges of a negative-cut tree edge for the tightest non-tree edge across
+//     the cut until no cut value is negative; cut values come from one postorder pass and tree
+//     sides from postorder numbers (section 2.4). Ranks start at 0; a node whose edges in and out
+//     weigh the same moves to the least crowded rank it may take. Edge weights make heavy edges
+//     short.
 //  3. Edges spanning several ranks get a chain of dummy nodes.
 //  4. The order within ranks is improved by weighted-median sweeps with transposition of
-//     neighbours (section 3), keeping the best order seen. A previous layout's order seeds the
-//     first sweep, so a graph that changes a little keeps the relative places of its nodes.
-//  5. Coordinates within ranks come from Brandes and Köpf, "Fast and simple horizontal
-//     coordinate assignment" (Graph Drawing 2001): four vertical alignments, horizontal
-//     compaction, and their balanced median; dummy chains are kept straight (type 1 conflicts).
+//     neighbours (section 3) from two starts, then sifting (Matuszewski, Schönfeld and Molitor
+//     1999), then an iterated local search: the best order, shaken in one place with a seeded
+//     source, is polished again, and kept if it crosses less. Crossings are counted with the
+//     accumulator tree of Barth, Jünger and Mutzel (2004). A previous layout's order (nodes and
+//     bends) seeds the search instead, so a graph that changes a little keeps its places.
+//  5. Coordinates within ranks come from network simplex on the auxiliary graph of section 4.2:
+//     the weighted, straightness-favouring total of horizontal edge lengths is minimised with the
+//     separations in each rank kept.
 //  6. Edges are routed through their dummy nodes and smoothed into cubic Bézier curves.
 //
-// Layout is done top to bottom and turned for left to right. Cost: network simplex is
-// polynomial in practice (O(V·E) per exchange here, fine for the few hundred nodes a picture
-// holds); ordering O(sweeps·(V+E)·log V); coordinates O(V+E).
+// Layout is done top to bottom and turned for left to right. Cost: each network simplex exchange
+// is O(V+E); ordering O(starts·sweeps·(V+E)·log V). BenchmarkAgainstDot compares the drawings
+// with Graphviz dot's.
 package layout

@@ -59,7 +59,11 @@ func Layout(g Graph, opt Options) (*Result, error) {
 	}
 	L.initialOrder(seed)
 	L.order(opt.Sweeps, seed != nil)
-	xs := L.positions(opt.NodeSep)
+	weights := make([]int, len(g.Edges))
+	for i, e := range g.Edges {
+		weights[i] = e.Weight
+	}
+	xs := L.positions(opt.NodeSep, weights)
 
 	// y: each rank as tall as its tallest node
 	heights := make([]float64, len(L.layers))

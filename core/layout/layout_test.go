@@ -37,14 +37,14 @@ func randomGraph(r *rand.Rand, n, m int) Graph {
 // and weights 1, the optimum puts a, b, c on ranks 0, 1, 2 (total length 4, computed by hand);
 // with the shortcut weighted 10 it is still 0, 1, 2 (b must lie between a and c).
 func TestNetworkSimplexByHand(t *testing.T) {
-	dag := []dagEdge{{0, 1, 1}, {1, 2, 1}, {0, 2, 10}}
+	dag := []dagEdge{{0, 1, 1, 1}, {1, 2, 1, 1}, {0, 2, 10, 1}}
 	assert.Equal(t, []int{0, 1, 2}, rankNodes(3, dag))
 	// a diamond with a heavy edge to a side node d: d is pulled next to its heavy neighbour
-	dag = []dagEdge{{0, 1, 1}, {1, 2, 1}, {2, 3, 1}, {3, 4, 10}}
+	dag = []dagEdge{{0, 1, 1, 1}, {1, 2, 1, 1}, {2, 3, 1, 1}, {3, 4, 10, 1}}
 	r := rankNodes(5, dag)
 	assert.Equal(t, 1, r[4]-r[3])
 	// a node with one edge into a long chain's end sits right above it, not at rank 0
-	dag = []dagEdge{{0, 1, 1}, {1, 2, 1}, {2, 3, 1}, {4, 3, 1}}
+	dag = []dagEdge{{0, 1, 1, 1}, {1, 2, 1, 1}, {2, 3, 1, 1}, {4, 3, 1, 1}}
 	r = rankNodes(5, dag)
 	assert.Equal(t, []int{0, 1, 2, 3, 2}, r)
 }

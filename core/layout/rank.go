@@ -9,6 +9,7 @@ import (
 type dagEdge struct {
 	from, to int
 	weight   int
+	minLen   int // the least rank difference from..to: 1 for ranking, a separation for x
 }
 
 // breakCycles reverses the back edges of a depth-first search that starts from the nodes in
@@ -44,7 +45,7 @@ func breakCycles(n int, edges []Edge) ([]dagEdge, int) {
 	}
 	var dag []dagEdge
 	for k, w := range merged {
-		dag = append(dag, dagEdge{k[0], k[1], w})
+		dag = append(dag, dagEdge{k[0], k[1], w, 1})
 	}
 	slices.SortFunc(dag, func(x, y dagEdge) int {
 		if x.from != y.from {
@@ -58,7 +59,12 @@ func breakCycles(n int, edges []Edge) ([]dagEdge, int) {
 // rankNodes assigns ranks minimising the weighted total edge length subject to every edge
 // pointing at least one rank down, by network simplex (Gansner et al. 1993, section 2), each
 // weakly connected component on its own, each starting at rank 0.
-func rankNodes(n int, dag []dagEdge) []int {
+func rankNodes(n int, dag []dagEdge) []int { return networkSimplex(n, dag, true) }
+
+// networkSimplex solves min Σ weight·(rank[to] − rank[from]) subject to rank[to] − rank[from] ≥
+// minLen for every edge, per weakly connected component, each component's least rank 0; with
+// balance, nodes free to move go to the least crowded rank.
+func networkSimplex(n int, dag []dagEdge, balance bool) []int {
 	rank := make([]int, n)
 	comp := make([]int, n)
 	for i := range comp {
@@ -102,7 +108,9 @@ func rankNodes(n int, dag []dagEdge) []int {
 	r.scratch()
 	for c := 0; c < nc; c++ {
 		r.simplex(nodesOf[c], edgesOf[c])
-		r.balance(nodesOf[c])
+		if balance {
+			r.balance(nodesOf[c])
+		}
 	}
 	return rank
 }
@@ -122,10 +130,10 @@ func (r *ranker) balance(nodes []int) {
 			e := r.dag[ei]
 			if e.to == v {
 				in += e.weight
-				lo = max(lo, r.rank[e.from]+1)
+				lo = max(lo, r.rank[e.from]+e.minLen)
 			} else {
 				out += e.weight
-				hi = min(hi, r.rank[e.to]-1)
+				hi = min(hi, r.rank[e.to]-e.minLen)
 			}
 		}
 		if in != out || lo == math.MinInt || hi == math.MaxInt {
@@ -160,7 +168,11 @@ type ranker struct {
 	f, d     []int
 	post     []int
 	stack    []int
+	frames   []frame
 }
+
+// frame is a node on the depth-first stack of number, with the next of its edges to look at.
+type frame struct{ v, next int }
 
 func (r *ranker) scratch() {
 	r.inTree = make([]bool, len(r.dag))
@@ -170,7 +182,7 @@ func (r *ranker) scratch() {
 	r.f, r.d = make([]int, r.n), make([]int, r.n)
 }
 
-func (r *ranker) slack(ei int) int { e := r.dag[ei]; return r.rank[e.to] - r.rank[e.from] - 1 }
+func (r *ranker) slack(ei int) int { e := r.dag[ei]; return r.rank[e.to] - r.rank[e.from] - e.minLen }
 
 // simplex ranks one connected component. Each exchange costs O(V + E): the cut value of the tree
 // edge above node v is ± Σ_{x below v} f(x), where f(x) is the weight of x's outgoing edges less
@@ -199,7 +211,7 @@ func (r *ranker) simplex(nodes, edges []int) {
 			if e.from != v {
 				continue
 			}
-			rank[e.to] = max(rank[e.to], rank[v]+1)
+			rank[e.to] = max(rank[e.to], rank[v]+e.minLen)
 			if indeg[e.to]--; indeg[e.to] == 0 {
 				queue = append(queue, e.to)
 			}
@@ -327,8 +339,8 @@ func (r *ranker) simplex(nodes, edges []int) {
 func (r *ranker) number(root int) {
 	r.post = r.post[:0]
 	r.parent[root] = -1
-	type frame struct{ v, next int }
-	stack := []frame{{root, 0}}
+	stack := append(r.frames[:0], frame{root, 0})
+	defer func() { r.frames = stack[:0] }()
 	r.low[root] = -1
 	for len(stack) > 0 {
 		top := &stack[len(stack)-1]
@@ -366,9 +378,9 @@ func (r *ranker) setRanks(root int) {
 		}
 		e := r.dag[ei]
 		if v == e.to {
-			r.rank[v] = r.rank[e.from] + 1
+			r.rank[v] = r.rank[e.from] + e.minLen
 		} else {
-			r.rank[v] = r.rank[e.to] - 1
+			r.rank[v] = r.rank[e.to] - e.minLen
 		}
 	}
 }
