@@ -67,6 +67,9 @@ type Alignment struct {
 	Moves  []Move `json:"moves"`
 	Cost   int    `json:"cost"`
 	States int    `json:"states_explored"`
+	// Solves counts the marking-equation programs solved; the other states took their bound
+	// from their parent's solution.
+	Solves int `json:"programs_solved"`
 }
 
 // Bound limits the work spent on one trace: at most States expanded search states and, when Time
@@ -282,6 +285,7 @@ func (s *search) reset(trace []string) {
 	s.u = slices.Grow(s.u[:0], len(trace)+1)[:len(trace)+1]
 	s.u[len(trace)] = 0
 	s.nodes, s.marks, s.heap, s.sols = s.nodes[:0], s.marks[:0], s.heap[:0], s.sols[:0]
+	s.solves = 0
 	clear(s.index)
 }
 
@@ -525,7 +529,7 @@ func (s *search) pop() queueEntry {
 // result walks back from the goal node to the start.
 func (s *search) result(goal int32, expanded int) *Alignment {
 	a := s.a
-	res := &Alignment{Cost: int(s.nodes[goal].g), States: expanded}
+	res := &Alignment{Cost: int(s.nodes[goal].g), States: expanded, Solves: s.solves}
 	for k := goal; s.nodes[k].parent >= 0; k = s.nodes[k].parent {
 		nd := s.nodes[k]
 		var mv Move

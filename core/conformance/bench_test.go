@@ -28,13 +28,13 @@ func BenchmarkAlignVariants(b *testing.B) {
 				traces, _ := g.variants(7, cases, noise)
 				name := fmt.Sprintf("transitions=%d/cases=%d/noise=%.0f%%", len(g.net.Transitions), cases, noise*100)
 				b.Run(name, func(b *testing.B) {
-					var states, aligned int
+					var states, solves, aligned int
 					for b.Loop() {
 						al, err := newAligner(g.net, Costs{})
 						if err != nil {
 							b.Fatal(err)
 						}
-						states, aligned = 0, 0
+						states, solves, aligned = 0, 0, 0
 						for _, tr := range traces {
 							res, err := al.align(tr, Bound{States: 50000})
 							if errors.Is(err, ErrBound) {
@@ -44,12 +44,14 @@ func BenchmarkAlignVariants(b *testing.B) {
 								b.Fatal(err)
 							}
 							states += res.States
+							solves += res.Solves
 							aligned++
 						}
 					}
 					b.ReportMetric(float64(len(traces)*b.N)/b.Elapsed().Seconds(), "variants/s")
 					b.ReportMetric(float64(len(traces)), "variants")
 					b.ReportMetric(float64(states)/float64(max(aligned, 1)), "states/variant")
+					b.ReportMetric(float64(solves)/float64(max(aligned, 1)), "programs/variant")
 					b.ReportMetric(float64(aligned)/float64(len(traces)), "aligned")
 				})
 			}
