@@ -14,7 +14,11 @@
 // cases are split by case into a proper training part and a calibration part; the absolute
 // errors of the median prediction on every calibration prefix give the quantile q at level
 // ⌈(n+1)(1-α)⌉/n, and the interval is median ± q (clipped at 0). For new cases exchangeable with
-// the calibration cases it covers the truth with probability at least 1-α.
+// the calibration cases it covers the truth with probability at least 1-α (FitExchangeable,
+// used by k-fold). The cases a forecast is for, those open at a moment, are not exchangeable with
+// them: they are drawn in proportion to their duration. Fit therefore weights each calibration
+// case by its duration and takes the weighted quantile; the temporal hold-out measures the
+// coverage that results.
 //
 // Every forecast is an estimate from past cases, not a guarantee; Evaluate measures its error on
 // a temporal hold-out so that the page can show it beside the forecasts.
