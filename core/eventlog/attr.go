@@ -121,6 +121,25 @@ func ParseBool(s string) (bool, bool) {
 	return false, false
 }
 
+// parseDecimalComma reads a number written with a decimal comma and no grouping (12,5 or -3 or
+// 0,25), as spreadsheets in much of Europe export them; ok is false for anything else.
+func parseDecimalComma(s string) (f float64, ok bool) {
+	d := strings.TrimLeft(s, "+-")
+	if len(s)-len(d) > 1 || d == "" {
+		return 0, false
+	}
+	comma := strings.IndexByte(d, ',')
+	for i := 0; i < len(d); i++ {
+		if c := d[i]; (c < '0' || c > '9') && i != comma {
+			return 0, false
+		}
+	}
+	if comma == 0 || comma == len(d)-1 {
+		return 0, false
+	}
+	return ParseNumber(strings.Replace(s, ",", ".", 1))
+}
+
 // ParseNumber reads a decimal or scientific number as strconv does, refusing NaN and
 // infinities, which no export means as a number.
 func ParseNumber(s string) (float64, bool) {

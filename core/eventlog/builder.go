@@ -429,9 +429,13 @@ func (rc *rawColumn) finish(size int, perm []int32) *Column {
 		kind = KindString
 	}
 	names := rc.dict.Names()
+	parse := ParseNumber
 	switch kind {
 	case KindUnknown:
-		kind = inferKind(names)
+		var comma bool
+		if kind, comma = inferKind(names); comma {
+			parse = parseDecimalComma
+		}
 	case KindNumber:
 		if !all(names, func(s string) bool { _, ok := ParseNumber(s); return ok }) {
 			kind = KindString
@@ -452,7 +456,7 @@ func (rc *rawColumn) finish(size int, perm []int32) *Column {
 	case KindNumber:
 		table := make([]float64, len(names))
 		for i, s := range names {
-			table[i], _ = ParseNumber(s)
+			table[i], _ = parse(s)
 		}
 		col.Num = make([]float64, size)
 		for i, id := range ids {
@@ -520,20 +524,37 @@ func all(names []string, ok func(string) bool) bool {
 // inferKind types a column read without declared types from its distinct values: number when
 // every value is a number and none is written with a leading zero (an account or postal code is
 // an identifier, not a quantity), bool for true/false, time when one timestamp layout reads every
-// value, text otherwise.
-func inferKind(names []string) Kind {
+// value, text otherwise. Numbers may have a decimal comma (comma is then true) when every value is
+// a whole number or digits, one comma, digits, and some value has other than three digits after
+// its comma: 1,250 alone could be a thousand and a quarter or one and a quarter, and stays text.
+func inferKind(names []string) (kind Kind, comma bool) {
 	if len(names) == 0 {
-		return KindString
+		return KindString, false
+	}
+	noLeadingZero := func(s string, point byte) bool {
+		d := strings.TrimLeft(s, "+-")
+		return !(len(d) > 1 && d[0] == '0' && d[1] != point)
 	}
 	number := all(names, func(s string) bool {
 		if _, ok := ParseNumber(s); !ok {
 			return false
 		}
-		d := strings.TrimLeft(s, "+-")
-		return !(len(d) > 1 && d[0] == '0' && d[1] != '.')
+		return noLeadingZero(s, '.')
 	})
 	if number {
-		return KindNumber
+		return KindNumber, false
+	}
+	decided := false
+	if all(names, func(s string) bool {
+		if _, ok := parseDecimalComma(s); !ok || !noLeadingZero(s, ',') {
+			return false
+		}
+		if i := strings.IndexByte(s, ','); i >= 0 && len(s)-i-1 != 3 {
+			decided = true
+		}
+		return true
+	}) && decided {
+		return KindNumber, true
 	}
 	if all(names, func(s string) bool {
 		switch strings.ToLower(s) {
@@ -542,12 +563,12 @@ func inferKind(names []string) Kind {
 		}
 		return false
 	}) {
-		return KindBool
+		return KindBool, false
 	}
 	if inf := timestamp.Infer(names); inf.Format != nil && inf.Parsed == inf.Total {
-		return KindTime
+		return KindTime, false
 	}
-	return KindString
+	return KindString, false
 }
 
 // lifecycle roles, after the standard transactional model (IEEE 1849-2016, lifecycle extension).

@@ -114,6 +114,27 @@ func TestVariants(t *testing.T) {
 	assert.Equal(t, []int32{1, 0, 0}, l.CaseVariant)
 }
 
+// TestDecimalComma: numbers written with a decimal comma, as spreadsheets in much of Europe
+// export them, are numbers; a column whose every comma is followed by three digits could be
+// thousands and stays text, as do codes with a leading zero (common practice of such exports).
+func TestDecimalComma(t *testing.T) {
+	evs := []ev{{c: "1", a: "a", t: 1}, {c: "1", a: "b", t: 2}, {c: "2", a: "a", t: 3}, {c: "2", a: "b", t: 4}}
+	l := build(t, evs, BuildOptions{}, map[string][]string{
+		"cost":      {"12,5", "3", "-0,25", "1,250"},
+		"thousands": {"1,250", "2,500", "3", "4"},
+		"code":      {"01,5", "2,5", "3", "4"},
+		"mixed":     {"1.5", "2,5", "3", "4"},
+	})
+	kinds := map[string]Kind{}
+	for _, c := range l.EventAttrs {
+		kinds[c.Key] = c.Kind
+	}
+	assert.Equal(t, map[string]Kind{"cost": KindNumber, "thousands": KindString, "code": KindString, "mixed": KindString}, kinds)
+	assert.Equal(t, []float64{12.5, 3, -0.25, 1.25}, l.EventAttr("cost").Num)
+	txt, _ := l.EventAttr("cost").Text(0)
+	assert.Equal(t, "12,5", txt, "the text is kept as written")
+}
+
 func TestAttributeTyping(t *testing.T) {
 	evs := []ev{{c: "1", a: "a", t: 1}, {c: "1", a: "b", t: 2}, {c: "2", a: "a", t: 3}, {c: "2", a: "b", t: 4}}
 	l := build(t, evs, BuildOptions{LiftCaseAttributes: true}, map[string][]string{

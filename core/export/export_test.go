@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"os"
 	"sort"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -15,15 +16,24 @@ import (
 	"tracewright/core/eventlog"
 	"tracewright/core/intake"
 	"tracewright/core/synth"
+	"tracewright/core/timestamp"
 )
 
-// dump writes a log as canonical text: what a round trip must keep.
+// dump writes a log as canonical text: what a round trip must keep. Times and numbers are
+// compared by value: XES writes them in its own notation (2024-01-01T00:00 becomes
+// 2024-01-01T00:00:00Z, 12,5 becomes 12.5).
 func dump(l *eventlog.Log) string {
 	var b strings.Builder
 	attrs := func(cols []*eventlog.Column, i int) string {
 		var kv []string
 		for _, c := range cols {
 			if v, ok := c.Text(i); ok {
+				switch c.Kind {
+				case eventlog.KindTime:
+					v = timestamp.FormatRFC3339(c.Time[i])
+				case eventlog.KindNumber:
+					v = strconv.FormatFloat(c.Num[i], 'g', -1, 64)
+				}
 				kv = append(kv, fmt.Sprintf("%s:%s=%s", c.Key, c.Kind, v))
 			}
 		}
@@ -100,6 +110,18 @@ func TestEscapingInXES(t *testing.T) {
 	require.NoError(t, WriteXES(&out, l1))
 	assert.NotContains(t, out.String(), "<script>")
 	assert.Equal(t, dump(l1), dump(read(t, out.Bytes(), intake.Options{})))
+}
+
+// TestDecimalCommaToXES: a number read with a decimal comma is written to XES as xs:double
+// requires (a point; W3C XML Schema, part 2, section 3.2.5) and reads back as the same number.
+func TestDecimalCommaToXES(t *testing.T) {
+	in := "case;activity;time;cost\nc1;a;2024-01-01T00:00:00Z;12,5\nc1;b;2024-01-01T01:00:00Z;3\n"
+	l1 := read(t, []byte(in), intake.Options{})
+	var out bytes.Buffer
+	require.NoError(t, WriteXES(&out, l1))
+	assert.Contains(t, out.String(), `value="12.5"`)
+	l2 := read(t, out.Bytes(), intake.Options{})
+	assert.Equal(t, l1.EventAttr("cost").Num, l2.EventAttr("cost").Num)
 }
 
 // FuzzCSVRoundTrip reads any CSV the reader accepts, writes it, and reads it again: the same log.

@@ -85,6 +85,9 @@ func (x *xesWriter) column(indent string, col *eventlog.Column, i int) {
 	}
 	switch col.Kind {
 	case eventlog.KindNumber:
+		if strings.IndexByte(text, ',') >= 0 { // read with a decimal comma; xs:double has a point
+			text = strconv.FormatFloat(col.Num[i], 'f', -1, 64)
+		}
 		typ := "float"
 		if _, err := strconv.ParseInt(text, 10, 64); err == nil {
 			typ = "int"

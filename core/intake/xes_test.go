@@ -115,6 +115,8 @@ func TestXESErrors(t *testing.T) {
 		{"bad date", head + "<trace>\n<event>\n<string key=\"concept:name\" value=\"a\"/>\n<date key=\"time:timestamp\" value=\"yesterday\"/>\n</event>\n</trace>\n</log>\n", 4, ErrBadTime, true},
 		{"no activity", head + "<trace>\n<event>\n<date key=\"time:timestamp\" value=\"2024-01-01T00:00:00Z\"/>\n</event>\n</trace>\n</log>\n", 4, ErrNoActivity, true},
 		{"bad entity", head + "<trace>\n<string key=\"concept:name\" value=\"a &bogus; b\"/>\n</trace>\n</log>\n", 4, ErrXES, false},
+		// XML 1.0 section 2.2 allows no control characters but tab, line feed and carriage return
+		{"control character", head + "<trace>\n<string key=\"concept:name\" value=\"a\x14b\"/>\n</trace>\n</log>\n", 4, ErrXES, false},
 		{"declared encoding unknown", `<?xml version="1.0" encoding="EBCDIC"?>` + "\n<log/>\n", 1, ErrUnsupported, false},
 	} {
 		t.Run(tc.name, func(t *testing.T) {

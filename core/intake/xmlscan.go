@@ -365,6 +365,13 @@ func (s *xmlScanner) markup(data []byte) (*xmlToken, int, error) {
 func (s *xmlScanner) unescape(dst, raw []byte, at int) ([]byte, error) {
 	for {
 		amp := bytes.IndexByte(raw, '&')
+		lit := raw
+		if amp >= 0 {
+			lit = raw[:amp]
+		}
+		if i := controlByte(lit); i >= 0 {
+			return nil, s.errAt(at+i, "character U+%04X is not allowed in XML", lit[i])
+		}
 		if amp < 0 {
 			if !utf8.Valid(raw) {
 				return nil, s.errAt(at, "invalid UTF-8")
@@ -468,6 +475,17 @@ func isSpace(c byte) bool { return c == ' ' || c == '\t' || c == '\n' || c == '\
 // byte of a multi-byte UTF-8 character (names in other scripts).
 func isNameByte(c byte) bool {
 	return c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z' || c >= '0' && c <= '9' || c == '_' || c == ':' || c == '-' || c == '.' || c >= 0x80
+}
+
+// controlByte finds the first control character XML 1.0 does not allow (section 2.2: of the
+// characters below U+0020 only tab, line feed and carriage return), or −1.
+func controlByte(b []byte) int {
+	for i, c := range b {
+		if c < 0x20 && c != '\t' && c != '\n' && c != '\r' {
+			return i
+		}
+	}
+	return -1
 }
 
 // isXMLChar is the Char production of XML 1.0 section 2.2.
