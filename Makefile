@@ -3,7 +3,7 @@ GO        ?= go
 WASM_EXEC := $(shell $(GO) env GOROOT)/lib/wasm/go_js_wasm_exec
 DEMO      := testdata/workshop.csv
 
-.PHONY: run page test vet test-native test-wasm cli bench bench-page fuzz demo clean
+.PHONY: run page test vet test-native test-wasm cli bench bench-analyses bench-page fuzz demo clean
 
 ## run: build the page (dist/tracewright.html) and serve dist/ on 127.0.0.1:8080
 run: page
@@ -37,6 +37,14 @@ bench:
 	$(GO) test -run '^$$' -bench . -benchmem -benchtime 3x ./core/intake/
 	$(GO) test -run '^$$' -bench . -benchmem ./core/timestamp/
 
+## bench-analyses: discovery, layout against Graphviz dot, alignments and forecasts (each prints
+## its figures and ratios; the alignment and forecast runs take several minutes)
+bench-analyses:
+	$(GO) test -run '^$$' -bench . -benchtime 1x ./core/discovery/
+	$(GO) test -run '^$$' -bench 'AgainstDot|Layout' -benchtime 1x ./core/layout/
+	$(GO) test -run '^$$' -bench 'AlignVariants|Workshop' -benchtime 1x -timeout 30m ./core/conformance/
+	$(GO) test -run '^$$' -bench Predict -benchtime 1x ./core/predict/
+
 ## bench-page: the page in headless chromium: start-up, a 1M-event CSV to the overview, peak
 ## memory, and the same intake natively in the same run
 bench-page:
@@ -52,6 +60,8 @@ fuzz:
 	$(GO) test -run '^$$' -fuzz '^FuzzCSVRoundTrip$$' -fuzztime $(FUZZTIME) ./core/export/
 	$(GO) test -run '^$$' -fuzz '^FuzzXESRoundTrip$$' -fuzztime $(FUZZTIME) ./core/export/
 	$(GO) test -run '^$$' -fuzz '^FuzzParse$$' -fuzztime $(FUZZTIME) ./core/timestamp/
+	$(GO) test -run '^$$' -fuzz '^FuzzParse$$' -fuzztime $(FUZZTIME) ./core/tree/
+	$(GO) test -run '^$$' -fuzz '^FuzzReadPNML$$' -fuzztime $(FUZZTIME) ./core/petri/
 
 ## demo: rewrite the demo logs in testdata/ from the generator (deterministic)
 demo: cli

@@ -49,3 +49,25 @@ func TestLanguage(t *testing.T) {
 		assert.Equal(t, tc.want, n.Language(tc.loops), tc.tree)
 	}
 }
+
+// FuzzParse reads any text as a process tree: it never panics, and a tree it reads, written
+// out, reads back as the same tree (String is a fixed point after one round).
+func FuzzParse(f *testing.F) {
+	for _, s := range []string{"→(a, ↺(→(∧(×(b, c), d), e), f), ×(g, h))", "×(τ, a)", "a", "seq(a, seq(b, c), loop(d, tau))", "↺(a)", "→(a"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		n, err := Parse(s)
+		if err != nil {
+			return
+		}
+		text := n.String()
+		again, err := Parse(text)
+		if err != nil {
+			t.Fatalf("%q read as %q, which does not read back: %v", s, text, err)
+		}
+		if again.String() != text {
+			t.Fatalf("%q: %q then %q", s, text, again.String())
+		}
+	})
+}
