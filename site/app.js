@@ -482,22 +482,31 @@
     if (e.target.files.length) { pnmlFile = e.target.files[0]; document.querySelector('input[name=cf-source][value=pnml]').checked = true; runConformance(); }
     e.target.value = '';
   });
+  let confRunning = 0;
   async function runConformance() {
     const source = document.querySelector('input[name=cf-source]:checked').value;
     if (source === 'pnml' && !pnmlFile) { $('cf-model').textContent = 'Choose a PNML file first.'; return; }
+    if (confRunning) return;
     $('conformance').dataset.ready = 'false';
     $('timing').dataset.ready = 'false';
     $('cf-model').textContent = 'Setting every path against the model…';
+    const progress = (p) => { $('cf-model').textContent = 'Setting every path against the model… ' + fmtInt(p.variants_done) + ' of ' + fmtInt(p.variants) + ' paths.'; };
     try {
-      const { done } = await call('conformance', { source, noise: $('md-noise').value / 100, costs: readCosts() }, source === 'pnml' ? pnmlFile : null);
+      const { id, done } = await call('conformance', { source, noise: $('md-noise').value / 100, costs: readCosts() }, source === 'pnml' ? pnmlFile : null, progress);
+      confRunning = id;
+      $('cf-stop').hidden = false;
       conf = await done;
       renderConformance();
       if (!$('timing').hidden) renderTiming();
     } catch (err) {
-      $('cf-model').textContent = '';
-      $('cf-figures').replaceChildren(el('p', { class: 'bad', text: err.message || String(err) }));
+      $('cf-model').textContent = err && err.cause === 'cancelled' ? 'Stopped before every path was set against the model; the figures below, if any, are from the last complete check.' : '';
+      if (!(err && err.cause === 'cancelled')) $('cf-figures').replaceChildren(el('p', { class: 'bad', text: err.message || String(err) }));
+    } finally {
+      confRunning = 0;
+      $('cf-stop').hidden = true;
     }
   }
+  $('cf-stop').addEventListener('click', () => { if (confRunning) call('cancel', { id: confRunning }); });
   $('cf-run').addEventListener('click', runConformance);
   // readCosts collects the weights the user changed in the departures table (1 is the default
   // and is not sent).

@@ -24,6 +24,7 @@ const yieldEvery = 4 << 20
 
 func main() {
 	e := engine.New()
+	e.Yield = yield
 	self := js.Global()
 	handler := js.FuncOf(func(this js.Value, args []js.Value) any {
 		msg := args[0]

@@ -1,6 +1,7 @@
 package conformance
 
 import (
+	"context"
 	"errors"
 	"runtime"
 	"slices"
@@ -45,16 +46,29 @@ type Result struct {
 // run), over cases (so not the mean of the traces' fitness), and escaping-edges precision.
 // Variants over the bound are reported as not aligned and left out of both figures.
 func AlignLog(l *eventlog.Log, n *petri.Net, costs Costs, bound Bound) (*Result, error) {
-	return AlignCases(l, n, costs, bound, nil)
+	return AlignCases(context.Background(), l, n, Options{Costs: costs, Bound: bound})
 }
 
-// AlignCases is AlignLog over the cases keep accepts (nil keeps all): a variant counts only its
-// kept cases, and a variant with none is left out. Conformance of running cases is usually not
-// wanted: their missing ends would count as skipped steps.
+// Options are AlignCases' settings beyond the log and the net.
+type Options struct {
+	Costs Costs
+	Bound Bound
+	// Keep chooses the cases to align (nil keeps all): a variant counts only its kept cases, and
+	// a variant with none is left out. Conformance of running cases is usually not wanted: their
+	// missing ends would count as skipped steps.
+	Keep func(c int) bool
+	// Progress, when set, is told after each variant how many of how many are done. Calls come
+	// one at a time, from whichever goroutine aligned the variant.
+	Progress func(done, total int)
+}
+
+// AlignCases is AlignLog with Options, stopping with ctx's error when ctx is done (checked
+// between variants).
 //
 // Variants are aligned on as many goroutines as GOMAXPROCS allows, each with its own aligner
 // (the warm-started program is not shared); the result does not depend on their number.
-func AlignCases(l *eventlog.Log, n *petri.Net, costs Costs, bound Bound, keep func(c int) bool) (*Result, error) {
+func AlignCases(ctx context.Context, l *eventlog.Log, n *petri.Net, opt Options) (*Result, error) {
+	costs, bound, keep := opt.Costs, opt.Bound, opt.Keep
 	al0, err := newAligner(n, costs)
 	if err != nil {
 		return nil, err
@@ -93,6 +107,8 @@ func AlignCases(l *eventlog.Log, n *petri.Net, costs Costs, bound Bound, keep fu
 	workers := min(runtime.GOMAXPROCS(0), len(res.Variants))
 	var next atomic.Int64
 	var wg sync.WaitGroup
+	var mu sync.Mutex
+	done := 0
 	for w := 0; w < workers; w++ {
 		al := al0
 		if w > 0 {
@@ -101,16 +117,25 @@ func AlignCases(l *eventlog.Log, n *petri.Net, costs Costs, bound Bound, keep fu
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			for {
+			for ctx.Err() == nil {
 				k := int(next.Add(1) - 1)
 				if k >= len(res.Variants) {
 					return
 				}
 				alignments[k], errs[k] = al.align(res.Variants[k].Trace, bound)
+				if opt.Progress != nil {
+					mu.Lock()
+					done++
+					opt.Progress(done, len(res.Variants))
+					mu.Unlock()
+				}
 			}
 		}()
 	}
 	wg.Wait()
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
 	var num, den float64
 	for k := range res.Variants {
 		va := &res.Variants[k]

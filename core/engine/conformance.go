@@ -2,6 +2,7 @@ package engine
 
 import (
 	"cmp"
+	"context"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -47,9 +48,16 @@ type ConformanceResult struct {
 	TimingSVG string              `json:"timing_svg"`
 }
 
-func (e *Engine) conformance(raw json.RawMessage, f *File) (*ConformanceResult, error) {
+// ConformanceProgress is the progress message of a conformance request: how many of the log's
+// variants have been set against the model.
+type ConformanceProgress struct {
+	Done  int `json:"variants_done"`
+	Total int `json:"variants"`
+}
+
+func (e *Engine) conformance(ctx context.Context, req Request, f *File, emit func(Response)) (*ConformanceResult, error) {
 	var o ConformanceOptions
-	if len(raw) > 0 {
+	if raw := req.Payload; len(raw) > 0 {
 		if err := json.Unmarshal(raw, &o); err != nil {
 			return nil, fmt.Errorf("conformance options: %w", err)
 		}
@@ -95,8 +103,25 @@ func (e *Engine) conformance(raw json.RawMessage, f *File) (*ConformanceResult, 
 		part := predict.Split(l, predict.Options{})
 		res.LeftOut, keep = len(part.Running), part.NotRunning()
 	}
-	if res.Alignment, err = conformance.AlignCases(l, net, o.Costs,
-		conformance.Bound{States: o.MaxStates, Time: time.Duration(o.MaxSeconds * float64(time.Second))}, keep); err != nil {
+	ctx, done := e.cancellable(ctx, req.ID)
+	defer done()
+	opt := conformance.Options{Costs: o.Costs, Keep: keep,
+		Bound: conformance.Bound{States: o.MaxStates, Time: time.Duration(o.MaxSeconds * float64(time.Second))}}
+	last := time.Now()
+	opt.Progress = func(n, total int) {
+		// a message and a turn for the host's pending messages every tenth of a second at most
+		if n < total && time.Since(last) < 100*time.Millisecond {
+			return
+		}
+		last = time.Now()
+		if emit != nil {
+			emit(Response{V: APIVersion, ID: req.ID, Kind: "progress", Payload: ConformanceProgress{Done: n, Total: total}})
+		}
+		if e.Yield != nil {
+			e.Yield()
+		}
+	}
+	if res.Alignment, err = conformance.AlignCases(ctx, l, net, opt); err != nil {
 		return nil, err
 	}
 	rep := conformance.Replay(l, net)

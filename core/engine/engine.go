@@ -85,6 +85,9 @@ type Engine struct {
 	log     *eventlog.Log
 	conf    *conformance.Result // the last conformance check's alignments, for conformance_cases
 	cancels map[int]context.CancelFunc
+	// Yield, when set, is called now and then during long computations so that the host can
+	// take pending messages (in the browser a "cancel" reaches the engine only when it yields).
+	Yield func()
 }
 
 // New returns an engine with no log.
@@ -130,7 +133,7 @@ func (e *Engine) Handle(ctx context.Context, req Request, file *File, emit func(
 	case "forecast":
 		payload, err = e.forecast(req.Payload)
 	case "conformance":
-		payload, err = e.conformance(req.Payload, file)
+		payload, err = e.conformance(ctx, req, file, emit)
 	case "conformance_cases":
 		payload, err = e.conformanceCases(req.Payload)
 	case "cancel":
@@ -154,7 +157,7 @@ func errorResponse(id int, err error) Response {
 	case errors.As(err, &se):
 		p.Line, p.Offset, p.Cause = se.Line, se.Column, rootCause(se.Err)
 	case errors.Is(err, context.Canceled):
-		p.Message, p.Cause = "reading was cancelled", "cancelled"
+		p.Message, p.Cause = "cancelled on request", "cancelled"
 	}
 	return Response{V: APIVersion, ID: id, Kind: "error", Payload: p}
 }
@@ -264,16 +267,8 @@ func (e *Engine) load(ctx context.Context, req Request, f *File, emit func(Respo
 			emit(Response{V: APIVersion, ID: req.ID, Kind: "progress", Payload: p})
 		}
 	}
-	ctx, cancel := context.WithCancel(ctx)
-	defer cancel()
-	e.mu.Lock()
-	e.cancels[req.ID] = cancel
-	e.mu.Unlock()
-	defer func() {
-		e.mu.Lock()
-		delete(e.cancels, req.ID)
-		e.mu.Unlock()
-	}()
+	ctx, done := e.cancellable(ctx, req.ID)
+	defer done()
 	l, rep, err := intake.Read(ctx, f.R, opt)
 	if err != nil {
 		return nil, err
@@ -285,6 +280,21 @@ func (e *Engine) load(ctx context.Context, req Request, f *File, emit func(Respo
 		rep.CSV.Preview = nil // the page has it from sniff; keep the message small
 	}
 	return &LoadResult{Name: f.Name, Overview: overview.Of(l, overview.Options{}), Read: rep}, nil
+}
+
+// cancellable registers a context that a "cancel" request for id will cancel; done
+// unregisters it.
+func (e *Engine) cancellable(ctx context.Context, id int) (context.Context, func()) {
+	ctx, cancel := context.WithCancel(ctx)
+	e.mu.Lock()
+	e.cancels[id] = cancel
+	e.mu.Unlock()
+	return ctx, func() {
+		e.mu.Lock()
+		delete(e.cancels, id)
+		e.mu.Unlock()
+		cancel()
+	}
 }
 
 // warmUp reads a small log (the embedded demo) and throws it away. In Chromium a wasm function

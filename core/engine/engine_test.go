@@ -233,9 +233,22 @@ func TestConformance(t *testing.T) {
 	require.NoError(t, err)
 	e := New()
 	require.Equal(t, "result", e.Handle(context.Background(), req("load", 1, ""), fileOf("w.csv", string(data)), nil).Kind)
-	r := e.Handle(context.Background(), req("conformance", 2, `{"source":"discovered","noise":0.2}`), nil, nil)
+	var progress []ConformanceProgress
+	r := e.Handle(context.Background(), req("conformance", 2, `{"source":"discovered","noise":0.2}`), nil, func(p Response) {
+		progress = append(progress, p.Payload.(ConformanceProgress))
+	})
 	require.Equal(t, "result", r.Kind, "%v", r.Payload)
 	c := r.Payload.(*ConformanceResult)
+	require.NotEmpty(t, progress)
+	last := progress[len(progress)-1]
+	assert.Equal(t, last.Total, last.Done, "the last progress message says all variants are done")
+	assert.Equal(t, len(c.Alignment.Variants), last.Total)
+	// a cancelled request stops between variants and says so
+	stopped, stop := context.WithCancel(context.Background())
+	stop()
+	r = e.Handle(stopped, req("conformance", 9, `{}`), nil, nil)
+	require.Equal(t, "error", r.Kind)
+	assert.Equal(t, "cancelled", r.Payload.(ErrorPayload).Cause)
 	assert.Greater(t, c.Alignment.Fitness, 0.8)
 	assert.Positive(t, c.LeftOut, "running cases are left out by default")
 	assert.Equal(t, 325-c.LeftOut, c.Alignment.Cases)

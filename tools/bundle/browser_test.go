@@ -372,6 +372,52 @@ func TestProgressAndCancel(t *testing.T) {
 	assert.Empty(t, rl.failures)
 }
 
+// TestStopConformance checks a generated log of 150k events (10% of cases with noise, some
+// hundreds of paths) against its model, waits for the progress count, and stops the check: the
+// engine takes the stop between two paths, since it yields to the worker's event loop while it
+// reports progress.
+func TestStopConformance(t *testing.T) {
+	html := builtPage(t)
+	lg := synth.Generate(synth.Config{Seed: 4, Events: 150_000, Noise: 0.1, Shifts: true})
+	big := filepath.Join(t.TempDir(), "noisy.csv")
+	f, err := os.Create(big)
+	require.NoError(t, err)
+	require.NoError(t, lg.WriteCSV(f, synth.ByTime))
+	require.NoError(t, f.Close())
+	ctx, rl := browser(t)
+	require.NoError(t, chromedp.Do(ctx,
+		chromedp.Navigate("file://"+html),
+		chromedp.WaitVisible(chromedp.CSS(`body[data-engine="ready"]`)),
+		chromedp.SetUploadFiles(chromedp.CSS(`#file-input`), []string{big}),
+		chromedp.WaitVisible(chromedp.CSS(`#mapping`)),
+		chromedp.Click(chromedp.CSS(`#read-button`)),
+		chromedp.WaitVisible(chromedp.CSS(`#overview[data-ready="true"]`)),
+		chromedp.Click(chromedp.CSS(`#views [data-view="conformance"]`)),
+	))
+	counted := false
+	for i := 0; i < 1500 && !counted; i++ {
+		text, err := chromedp.Run(ctx, chromedp.Text(chromedp.CSS(`#cf-model`)))
+		require.NoError(t, err)
+		counted = strings.Contains(text, " paths.")
+		if !counted {
+			time.Sleep(20 * time.Millisecond)
+		}
+	}
+	require.True(t, counted, "the check reports how many paths are done")
+	require.NoError(t, chromedp.Do(ctx, chromedp.Click(chromedp.CSS(`#cf-stop`))))
+	stopped := false
+	for i := 0; i < 1500 && !stopped; i++ {
+		text, err := chromedp.Run(ctx, chromedp.Text(chromedp.CSS(`#cf-model`)))
+		require.NoError(t, err)
+		stopped = strings.HasPrefix(text, "Stopped")
+		if !stopped {
+			time.Sleep(20 * time.Millisecond)
+		}
+	}
+	assert.True(t, stopped, "the check stops on request")
+	assert.Empty(t, rl.failures)
+}
+
 // TestViews opens the demo log's flow map and model, moves a control, opens a detail, and
 // saves screenshots; nothing may leave the page.
 func TestViews(t *testing.T) {

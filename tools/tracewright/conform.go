@@ -88,7 +88,8 @@ func conformCommand(ctx context.Context, args []string, stdout io.Writer) error 
 	if err := costs.Check(); err != nil {
 		return &usageError{err.Error()}
 	}
-	al, err := conformance.AlignCases(l, net, costs, conformance.Bound{States: *bound, Time: time.Duration(*seconds * float64(time.Second))}, keep)
+	al, err := conformance.AlignCases(ctx, l, net, conformance.Options{Costs: costs, Keep: keep,
+		Bound: conformance.Bound{States: *bound, Time: time.Duration(*seconds * float64(time.Second))}})
 	if err != nil {
 		return err
 	}
