@@ -12,8 +12,11 @@
 // Gammerman and Shafer, Algorithmic Learning in a Random World, 2005; the split form as in Lei
 // et al., "Distribution-free predictive inference for regression", JASA 2018): the training
 // cases are split by case into a proper training part and a calibration part; the absolute
-// errors of the median prediction on every calibration prefix give the quantile q at level
-// ⌈(n+1)(1-α)⌉/n, and the interval is median ± q (clipped at 0). For new cases exchangeable with
+// errors of the median prediction on every calibration prefix, each divided by its state's
+// spread (the interquartile range of its remaining times, plus an hour), give the quantile q at
+// level ⌈(n+1)(1-α)⌉/n, and the interval is median ± q·spread (clipped at 0), so that uncertain
+// states get wide intervals and settled ones narrow intervals (locally weighted, as in Lei et al.
+// 2018, section 5.2). For new cases exchangeable with
 // the calibration cases it covers the truth with probability at least 1-α (FitExchangeable,
 // used by k-fold). The cases a forecast is for, those open at a moment, are not exchangeable with
 // them: they are drawn in proportion to their duration. Fit therefore weights each calibration

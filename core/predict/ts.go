@@ -83,6 +83,7 @@ type State struct {
 	Outcome   int // prefixes whose case met the outcome rule
 	// summaries computed once by Build, so a prediction costs a lookup
 	median, meanRemaining, meanSojourn float64
+	spread                             float64 // interquartile range of Remaining
 }
 
 // System is an annotated transition system. Besides the states of the configured horizon it
@@ -185,6 +186,7 @@ func Build(l *eventlog.Log, cases []int, cfg Config, outcome Outcome) (*System, 
 			slices.Sort(st.Elapsed)
 			slices.Sort(st.Sojourn)
 			st.median = summary.Quantile(st.Remaining, 0.5)
+			st.spread = summary.Quantile(st.Remaining, 0.75) - summary.Quantile(st.Remaining, 0.25)
 			st.meanRemaining, st.meanSojourn = mean(st.Remaining), mean(st.Sojourn)
 		}
 	}
@@ -199,10 +201,11 @@ type Prediction struct {
 	Next          map[string]float64 `json:"next"`
 	End           float64            `json:"end_probability"`
 	Outcome       float64            `json:"outcome_probability"`
-	Support       int                `json:"support"`  // past prefixes behind the forecast
-	Horizon       int                `json:"horizon"`  // the horizon used (less than asked after a fallback)
-	Fallback      bool               `json:"fallback"` // the full state was never seen
-	Unknown       bool               `json:"unknown"`  // no state at any horizon: nothing to say
+	Support       int                `json:"support"`        // past prefixes behind the forecast
+	Horizon       int                `json:"horizon"`        // the horizon used (less than asked after a fallback)
+	Fallback      bool               `json:"fallback"`       // the full state was never seen
+	Unknown       bool               `json:"unknown"`        // no state at any horizon: nothing to say
+	Spread        float64            `json:"spread_seconds"` // interquartile range of the state's remaining times
 }
 
 // Predict forecasts the prefix acts of a case with attribute value attr.
@@ -222,7 +225,7 @@ func (s *System) Predict(acts []int32, attr string) Prediction {
 			continue
 		}
 		p := Prediction{Horizon: lv.horizon, Fallback: li > 0, Support: len(st.Remaining), Next: map[string]float64{}}
-		p.MedianSeconds, p.MeanSeconds, p.SojournMean = st.median, st.meanRemaining, st.meanSojourn
+		p.MedianSeconds, p.MeanSeconds, p.SojournMean, p.Spread = st.median, st.meanRemaining, st.meanSojourn, st.spread
 		n := float64(len(st.Remaining))
 		for a, c := range st.Next {
 			p.Next[s.log.Activities.Name(a)] = float64(c) / n
