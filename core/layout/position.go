@@ -21,13 +21,35 @@ func (L *layered) dummy(v int) bool { return v >= L.real }
 // neighbours a, b in a rank gets an edge a→b whose least length is their half widths plus the
 // separation. Network simplex on that graph minimises Σ ω·Ω·|x(u) − x(v)| with the separations
 // kept, the shortest straightest drawing for the order. weights holds ω per input edge.
+//
+// Brandes and Köpf's coordinates are the start: rounded and pushed right where rounding broke a
+// separation, they are a feasible solution close to the optimum, so network simplex needs few
+// exchanges. A graph whose auxiliary graph would exceed simplexLimit nodes keeps them as they are
+// (they are computed in linear time).
 func (L *layered) positions(nodeSep float64, weights []int) []float64 {
+	bk := L.brandesKoepf(nodeSep)
+	segments := len(L.segs)
+	if L.n+segments > simplexLimit {
+		return bk
+	}
+	sep := func(a, b int) int { return int(math.Ceil((L.width[a]+L.width[b])/2 + nodeSep)) }
+	start := make([]int, L.n, L.n+segments)
+	for _, layer := range L.layers {
+		for i, v := range layer {
+			x := int(math.Round(bk[v]))
+			if i > 0 {
+				x = max(x, start[layer[i-1]]+sep(layer[i-1], v))
+			}
+			start[v] = x
+		}
+	}
 	var dag []dagEdge
 	aux := L.n
 	for i, chain := range L.chains {
 		w := max(1, weights[i])
 		for k := 1; k < len(chain); k++ {
 			u, v := chain[k-1], chain[k]
+			start = append(start, min(start[u], start[v]))
 			omega := 1
 			switch {
 			case L.dummy(u) && L.dummy(v):
@@ -42,14 +64,17 @@ func (L *layered) positions(nodeSep float64, weights []int) []float64 {
 	for _, layer := range L.layers {
 		for i := 0; i+1 < len(layer); i++ {
 			a, b := layer[i], layer[i+1]
-			sep := int(math.Ceil((L.width[a]+L.width[b])/2 + nodeSep))
-			dag = append(dag, dagEdge{a, b, 0, sep})
+			dag = append(dag, dagEdge{a, b, 0, sep(a, b)})
 		}
 	}
-	x := networkSimplex(aux, dag, false)
+	x := networkSimplex(aux, dag, false, start)
 	out := make([]float64, L.n)
 	for v := range out {
 		out[v] = float64(x[v])
 	}
 	return out
 }
+
+// simplexLimit bounds the auxiliary graph that network simplex places; beyond it Brandes and
+// Köpf's coordinates are used alone.
+const simplexLimit = 20000

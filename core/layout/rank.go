@@ -59,12 +59,14 @@ func breakCycles(n int, edges []Edge) ([]dagEdge, int) {
 // rankNodes assigns ranks minimising the weighted total edge length subject to every edge
 // pointing at least one rank down, by network simplex (Gansner et al. 1993, section 2), each
 // weakly connected component on its own, each starting at rank 0.
-func rankNodes(n int, dag []dagEdge) []int { return networkSimplex(n, dag, true) }
+func rankNodes(n int, dag []dagEdge) []int { return networkSimplex(n, dag, true, nil) }
 
 // networkSimplex solves min Σ weight·(rank[to] − rank[from]) subject to rank[to] − rank[from] ≥
 // minLen for every edge, per weakly connected component, each component's least rank 0; with
-// balance, nodes free to move go to the least crowded rank.
-func networkSimplex(n int, dag []dagEdge, balance bool) []int {
+// balance, nodes free to move go to the least crowded rank. start, when given, is a feasible
+// solution to begin from (else the longest paths from the sources are): a good start leaves
+// fewer exchanges.
+func networkSimplex(n int, dag []dagEdge, balance bool, start []int) []int {
 	rank := make([]int, n)
 	comp := make([]int, n)
 	for i := range comp {
@@ -104,7 +106,7 @@ func networkSimplex(n int, dag []dagEdge, balance bool) []int {
 	for i, e := range dag {
 		edgesOf[comp[e.from]] = append(edgesOf[comp[e.from]], i)
 	}
-	r := &ranker{dag: dag, adj: adj, rank: rank, n: n}
+	r := &ranker{dag: dag, adj: adj, rank: rank, n: n, start: start}
 	r.scratch()
 	for c := 0; c < nc; c++ {
 		r.simplex(nodesOf[c], edgesOf[c])
@@ -169,6 +171,7 @@ type ranker struct {
 	post     []int
 	stack    []int
 	frames   []frame
+	start    []int // a feasible solution to begin from, or nil
 }
 
 // frame is a node on the depth-first stack of number, with the next of its edges to look at.
@@ -190,6 +193,14 @@ func (r *ranker) slack(ei int) int { e := r.dag[ei]; return r.rank[e.to] - r.ran
 // on is read from the postorder numbers (Gansner et al. 1993, section 2.4).
 func (r *ranker) simplex(nodes, edges []int) {
 	dag, adj, rank := r.dag, r.adj, r.rank
+	if r.start != nil {
+		for _, v := range nodes {
+			rank[v] = r.start[v]
+		}
+		r.feasibleTree(nodes, edges)
+		r.exchange(nodes, edges)
+		return
+	}
 	// initial ranks: longest path from the sources, in topological order
 	indeg := r.d // scratch
 	for _, v := range nodes {
@@ -222,7 +233,14 @@ func (r *ranker) simplex(nodes, edges []int) {
 		rank[nodes[0]] = 0
 		return
 	}
-	// feasible tree: grow tight edges from nodes[0]; pull in the closest node until spanning
+	r.feasibleTree(nodes, edges)
+	r.exchange(nodes, edges)
+}
+
+// feasibleTree grows a tree of tight edges from nodes[0], pulling in the closest node (shifting
+// the tree by the least slack) until the tree spans the component.
+func (r *ranker) feasibleTree(nodes, edges []int) {
+	dag, adj, rank := r.dag, r.adj, r.rank
 	for {
 		for _, v := range nodes {
 			r.treeNode[v] = false
@@ -268,6 +286,16 @@ func (r *ranker) simplex(nodes, edges []int) {
 				rank[v] += delta
 			}
 		}
+	}
+}
+
+// exchange swaps negative-cut tree edges for the tightest edges across their cuts until no cut
+// value is negative, then shifts the component's least rank to 0.
+func (r *ranker) exchange(nodes, edges []int) {
+	dag, rank := r.dag, r.rank
+	if len(nodes) == 1 {
+		rank[nodes[0]] = 0
+		return
 	}
 	for _, v := range nodes {
 		r.f[v] = 0

@@ -38,13 +38,26 @@ func TestRanksAreOptimal(t *testing.T) {
 				dag = append(dag, dagEdge{u, v, 1 + r.IntN(9), minLen()})
 			}
 		}
-		rank := networkSimplex(n, dag, false)
+		rank := networkSimplex(n, dag, false, nil)
 		ours := 0.0
 		for _, e := range dag {
 			require.GreaterOrEqual(t, rank[e.to]-rank[e.from], e.minLen, "feasible")
 			ours += float64(e.weight * (rank[e.to] - rank[e.from]))
 		}
 		require.InDelta(t, lpOptimum(n, dag), ours, 1e-6, "trial %d: %d nodes, %d edges", trial, n, len(dag))
+		// from a feasible start far from the optimum (every difference of the solution tripled,
+		// so still at least minLen) the same optimum comes out
+		start := make([]int, n)
+		for v := range start {
+			start[v] = 3 * rank[v]
+		}
+		again := networkSimplex(n, dag, false, start)
+		total := 0.0
+		for _, e := range dag {
+			require.GreaterOrEqual(t, again[e.to]-again[e.from], e.minLen, "feasible from a start")
+			total += float64(e.weight * (again[e.to] - again[e.from]))
+		}
+		require.InDelta(t, ours, total, 1e-6, "trial %d from a start", trial)
 	}
 }
 
