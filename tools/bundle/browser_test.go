@@ -333,16 +333,22 @@ func TestNothingLeavesThePage(t *testing.T) {
 	t.Logf("%d kinds of request tried; the browser reported %d, all blocked: %v", n, len(out), out)
 }
 
+// generatedCSV writes a generated log as a CSV file in the test's temporary folder.
+func generatedCSV(t *testing.T, cfg synth.Config, order synth.RowOrder) string {
+	t.Helper()
+	path := filepath.Join(t.TempDir(), "generated.csv")
+	f, err := os.Create(path)
+	require.NoError(t, err)
+	require.NoError(t, synth.Generate(cfg).WriteCSV(f, order))
+	require.NoError(t, f.Close())
+	return path
+}
+
 // TestProgressAndCancel reads a large generated log, waits for the progress bar to move, cancels,
 // and expects the column step back with no overview and no error.
 func TestProgressAndCancel(t *testing.T) {
 	html := builtPage(t)
-	lg := synth.Generate(synth.Config{Seed: 3, Events: 600_000, Shifts: true})
-	big := filepath.Join(t.TempDir(), "big.csv")
-	f, err := os.Create(big)
-	require.NoError(t, err)
-	require.NoError(t, lg.WriteCSV(f, synth.Shuffled))
-	require.NoError(t, f.Close())
+	big := generatedCSV(t, synth.Config{Seed: 3, Events: 600_000, Shifts: true}, synth.Shuffled)
 	ctx, rl := browser(t)
 	require.NoError(t, chromedp.Do(ctx,
 		chromedp.Navigate("file://"+html),
@@ -378,12 +384,7 @@ func TestProgressAndCancel(t *testing.T) {
 // reports progress.
 func TestStopConformance(t *testing.T) {
 	html := builtPage(t)
-	lg := synth.Generate(synth.Config{Seed: 4, Events: 150_000, Noise: 0.1, Shifts: true})
-	big := filepath.Join(t.TempDir(), "noisy.csv")
-	f, err := os.Create(big)
-	require.NoError(t, err)
-	require.NoError(t, lg.WriteCSV(f, synth.ByTime))
-	require.NoError(t, f.Close())
+	big := generatedCSV(t, synth.Config{Seed: 4, Events: 150_000, Noise: 0.1, Shifts: true}, synth.ByTime)
 	ctx, rl := browser(t)
 	require.NoError(t, chromedp.Do(ctx,
 		chromedp.Navigate("file://"+html),
