@@ -395,26 +395,22 @@ func TestStopConformance(t *testing.T) {
 		chromedp.WaitVisible(chromedp.CSS(`#overview[data-ready="true"]`)),
 		chromedp.Click(chromedp.CSS(`#views [data-view="conformance"]`)),
 	))
-	counted := false
-	for i := 0; i < 1500 && !counted; i++ {
-		text, err := chromedp.Run(ctx, chromedp.Text(chromedp.CSS(`#cf-model`)))
-		require.NoError(t, err)
-		counted = strings.Contains(text, " paths.")
-		if !counted {
+	// textUntil polls the status line until ok holds for its text (at most 30 s)
+	textUntil := func(ok func(string) bool) bool {
+		for i := 0; i < 1500; i++ {
+			text, err := chromedp.Run(ctx, chromedp.Text(chromedp.CSS(`#cf-model`)))
+			require.NoError(t, err)
+			if ok(text) {
+				return true
+			}
 			time.Sleep(20 * time.Millisecond)
 		}
+		return false
 	}
+	counted := textUntil(func(s string) bool { return strings.Contains(s, " paths.") })
 	require.True(t, counted, "the check reports how many paths are done")
 	require.NoError(t, chromedp.Do(ctx, chromedp.Click(chromedp.CSS(`#cf-stop`))))
-	stopped := false
-	for i := 0; i < 1500 && !stopped; i++ {
-		text, err := chromedp.Run(ctx, chromedp.Text(chromedp.CSS(`#cf-model`)))
-		require.NoError(t, err)
-		stopped = strings.HasPrefix(text, "Stopped")
-		if !stopped {
-			time.Sleep(20 * time.Millisecond)
-		}
-	}
+	stopped := textUntil(func(s string) bool { return strings.HasPrefix(s, "Stopped") })
 	assert.True(t, stopped, "the check stops on request")
 	assert.Empty(t, rl.failures)
 }
