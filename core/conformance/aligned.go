@@ -194,6 +194,7 @@ func precision(n *petri.Net, vs []VariantAlignment) float64 {
 			st.shown[next] = true
 		}
 	}
+	index := n.TransitionIndex()
 	for _, v := range vs {
 		if !v.Aligned {
 			continue
@@ -204,7 +205,10 @@ func precision(n *petri.Net, vs []VariantAlignment) float64 {
 			if mv.Kind == "log" {
 				continue
 			}
-			t := transitionByID(n, mv.Transition)
+			t, ok := index[mv.Transition]
+			if !ok {
+				panic("conformance: alignment names an unknown transition " + mv.Transition)
+			}
 			if !mv.Silent {
 				visit(prefix, m, v.Cases, mv.Activity)
 				prefix = append(prefix, mv.Activity)
@@ -232,15 +236,6 @@ func precision(n *petri.Net, vs []VariantAlignment) float64 {
 		return 1
 	}
 	return 1 - esc/all
-}
-
-func transitionByID(n *petri.Net, id string) int {
-	for t, tr := range n.Transitions {
-		if tr.ID == id {
-			return t
-		}
-	}
-	panic("conformance: alignment names an unknown transition " + id)
 }
 
 // enabledVisible lists the labels of visible transitions enabled in m or after silent steps.

@@ -61,10 +61,7 @@ type PlaceTiming struct {
 // counted. Cost: O(events + moves) per case and O(samples · log samples) for the summaries.
 func TimeOnModel(l *eventlog.Log, n *petri.Net, r *Result) *Timing {
 	tm := &Timing{HasStart: l.InstFirst != nil}
-	index := map[string]int{}
-	for t, tr := range n.Transitions {
-		index[tr.ID] = t
-	}
+	index := n.TransitionIndex()
 	sojourn := make([][]float64, len(n.Transitions))
 	waiting := make([][]float64, len(n.Transitions))
 	service := make([][]float64, len(n.Transitions))

@@ -144,10 +144,7 @@ func (e *Engine) conformance(ctx context.Context, req Request, f *File, emit fun
 // required it and how often its activity was done where the model did not allow it (log moves
 // are placed on the first transition with the activity's label).
 func deviationOverlay(n *petri.Net, r *conformance.Result, acts []conformance.ActivityDeviation) *render.Overlay {
-	index := map[string]int{}
-	for t, tr := range n.Transitions {
-		index[tr.ID] = t
-	}
+	index := n.TransitionIndex()
 	sync := make([]int, len(n.Transitions))
 	skip := make([]int, len(n.Transitions))
 	for _, v := range r.Variants {

@@ -129,6 +129,16 @@ func (n *Net) Fire(m Marking, t int) Marking {
 	return out
 }
 
+// TransitionIndex maps each transition's ID to its index, for results (alignments, PNML) that
+// name transitions by ID.
+func (n *Net) TransitionIndex() map[string]int {
+	index := make(map[string]int, len(n.Transitions))
+	for t, tr := range n.Transitions {
+		index[tr.ID] = t
+	}
+	return index
+}
+
 // Marking returns a marking with one token in each of the given places.
 func (n *Net) Marking(places ...int) Marking {
 	m := make(Marking, len(n.Places))
