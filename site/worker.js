@@ -25,3 +25,46 @@ self.onmessage = async (event) => {
   }
   self.tracewrightHandle(m);
 };
+
+// The file is read on a thread of its own: a nested worker reads slices with FileReaderSync and
+// hands each one over (transferred, not copied). Read here, a slice would need this thread's
+// event loop, which is busy while the engine parses, so reading and parsing would take turns.
+// Where a worker cannot start one (an older browser), slices are read here.
+const READER = 'onmessage=(e)=>{const m=e.data;try{const b=new FileReaderSync().readAsArrayBuffer(m.file.slice(m.start,m.end));postMessage({id:m.id,buf:b},[b]);}catch(err){postMessage({id:m.id,error:String(err)});}};';
+let reader = null;
+let readerFailed = false;
+let nextRead = 1;
+const reads = new Map();
+function readHere(r) { r.file.slice(r.start, r.end).arrayBuffer().then(r.resolve, r.reject); }
+function startReader() {
+  try {
+    const url = URL.createObjectURL(new Blob([READER], { type: 'text/javascript' }));
+    reader = new Worker(url);
+    URL.revokeObjectURL(url);
+  } catch (err) {
+    readerFailed = true;
+    reader = null;
+    return;
+  }
+  reader.onmessage = (e) => {
+    const r = reads.get(e.data.id);
+    if (!r) return;
+    reads.delete(e.data.id);
+    if (e.data.error) r.reject(new Error(e.data.error)); else r.resolve(e.data.buf);
+  };
+  reader.onerror = (e) => {
+    if (e && e.preventDefault) e.preventDefault();
+    readerFailed = true;
+    reader = null;
+    for (const r of reads.values()) readHere(r);
+    reads.clear();
+  };
+}
+self.tracewrightReadSlice = (file, start, end) => new Promise((resolve, reject) => {
+  const r = { file, start, end, resolve, reject };
+  if (!reader && !readerFailed) startReader();
+  if (!reader) { readHere(r); return; }
+  const id = nextRead++;
+  reads.set(id, r);
+  reader.postMessage({ id, file, start, end });
+});

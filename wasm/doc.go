@@ -7,8 +7,9 @@
 //
 // The worker's bootstrap (site/worker.js) starts the module; main registers a handler and
 // waits. Each message from the page becomes an engine.Request; a message that carries a File is
-// read as a stream (File.stream(), about 200 MB/s in Chromium, faster than slicing), chunk by
-// chunk through an io.Reader. Go keeps every JS value it was handed alive until its collector
-// runs, and its heap grows slowly, so without care the worker held the whole file; a collection
-// every 64 MB read keeps it flat.
+// read through an io.Reader in slices of up to 16 MB, always one ahead, by a nested worker with
+// FileReaderSync (site/worker.js): on a thread of its own the next slice is read while the engine
+// parses, where File.stream() on the engine's thread made reading and parsing take turns. Go
+// keeps every JS value it was handed alive until its collector runs, and its heap grows slowly,
+// so without care the worker held the whole file; a collection every 64 MB read keeps it flat.
 package main

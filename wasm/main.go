@@ -17,9 +17,9 @@ import (
 // gcEvery is how many bytes are read between forced collections (see the package doc).
 const gcEvery = 64 << 20
 
-// yieldEvery is how many bytes are read between turns given to the worker's event loop. A
-// stream's chunks arrive as promise reactions, which run before any message, so without these
-// turns a "cancel" from the page would wait until the whole file was read.
+// yieldEvery is how many bytes are read between turns given to the worker's event loop. A slice
+// read ahead is often there before the engine asks for it, and then the engine does not wait, so
+// without these turns a "cancel" from the page would wait until the whole file was read.
 const yieldEvery = 4 << 20
 
 func main() {
@@ -45,7 +45,7 @@ func handle(e *engine.Engine, self js.Value, msg js.Value) {
 	var file *engine.File
 	var fr *fileReader
 	if f := msg.Get("file"); f.Truthy() {
-		fr = &fileReader{reader: f.Call("stream").Call("getReader")}
+		fr = newFileReader(f)
 		file = &engine.File{Name: f.Get("name").String(), Size: int64(f.Get("size").Float()), R: fr}
 	}
 	post := func(r engine.Response) {
@@ -68,30 +68,85 @@ func handle(e *engine.Engine, self js.Value, msg js.Value) {
 	post(resp)
 }
 
-// fileReader reads a ReadableStream's chunks as an io.Reader.
+// fileReader reads a File as an io.Reader, slice by slice and always one slice ahead. The
+// slices are read by tracewrightReadSlice (site/worker.js) on a thread of their own, so the next
+// one arrives while the engine parses this one. Read on the engine's thread, a slice or a
+// stream's chunk needs tasks of that thread's event loop, which cannot run while the engine
+// parses: reading and parsing took turns, and a 74 MB CSV waited 350-450 ms on its chunks.
+//
+// Slices start at sliceFirst, so that a sniff, which needs only the first SampleBytes, reads
+// little, and double up to sliceMax.
 type fileReader struct {
-	reader     js.Value
-	buf        []byte
+	file       js.Value
+	size       int64
+	off        int64            // where the next slice to ask for starts
+	ahead      chan sliceResult // the slice being read; nil when the file is all asked for
+	aheadLen   int
+	buf        []byte // the unread part of chunk
 	chunk      []byte
-	done       bool
 	sinceGC    int
 	sinceYield int
 }
 
+const (
+	sliceFirst = 256 << 10
+	sliceMax   = 16 << 20
+)
+
+type sliceResult struct {
+	buf js.Value // an ArrayBuffer
+	err error
+}
+
+func newFileReader(f js.Value) *fileReader {
+	r := &fileReader{file: f, size: int64(f.Get("size").Float())}
+	r.askNext()
+	return r
+}
+
+// askNext asks for the next slice; it arrives on r.ahead.
+func (r *fileReader) askNext() {
+	if r.off >= r.size {
+		r.ahead = nil
+		return
+	}
+	n := int64(sliceFirst)
+	if r.aheadLen > 0 {
+		n = int64(min(2*r.aheadLen, sliceMax))
+	}
+	n = min(n, r.size-r.off)
+	ch := make(chan sliceResult, 1)
+	var then, catch js.Func
+	done := func(res sliceResult) {
+		ch <- res
+		then.Release()
+		catch.Release()
+	}
+	then = js.FuncOf(func(this js.Value, args []js.Value) any {
+		done(sliceResult{buf: args[0]})
+		return nil
+	})
+	catch = js.FuncOf(func(this js.Value, args []js.Value) any {
+		done(sliceResult{err: errors.New("reading the file failed: " + args[0].Call("toString").String())})
+		return nil
+	})
+	js.Global().Call("tracewrightReadSlice", r.file, float64(r.off), float64(r.off+n)).Call("then", then, catch)
+	r.off += n
+	r.aheadLen = int(n)
+	r.ahead = ch
+}
+
 func (r *fileReader) Read(p []byte) (int, error) {
 	for len(r.buf) == 0 {
-		if r.done {
+		if r.ahead == nil {
 			return 0, io.EOF
 		}
-		res, err := await(r.reader.Call("read"))
-		if err != nil {
-			return 0, err
+		res := <-r.ahead
+		if res.err != nil {
+			return 0, res.err
 		}
-		if res.Get("done").Bool() {
-			r.done = true
-			continue
-		}
-		v := res.Get("value")
+		r.askNext()
+		v := js.Global().Get("Uint8Array").New(res.buf)
 		n := v.Get("length").Int()
 		if cap(r.chunk) < n {
 			r.chunk = make([]byte, n)
@@ -102,7 +157,7 @@ func (r *fileReader) Read(p []byte) (int, error) {
 		r.sinceGC += n
 		if r.sinceGC >= gcEvery {
 			r.sinceGC = 0
-			runtime.GC() // let go of the JS chunks read so far
+			runtime.GC() // let go of the JS buffers read so far
 		}
 		r.sinceYield += n
 		if r.sinceYield >= yieldEvery {
@@ -115,12 +170,8 @@ func (r *fileReader) Read(p []byte) (int, error) {
 	return n, nil
 }
 
-// close stops the stream: a sniff reads only the start of a file.
-func (r *fileReader) close() {
-	if !r.done {
-		r.reader.Call("cancel")
-	}
-}
+// close forgets the slice still being read: a sniff reads only the start of a file.
+func (r *fileReader) close() { r.ahead = nil }
 
 // yield lets the worker's event loop take its pending messages (setTimeout 0 is a task, not a
 // promise reaction).
