@@ -700,7 +700,8 @@
       el('span', { class: 'value', text: label[0] }), el('span', { class: 'label', text: label[1] })));
     fig('mae_days', [ev.mae_days.toFixed(2) + ' d', 'typical error of the remaining time'], ev.mae_days);
     fig('baseline_mae_days', [ev.baseline_mae_days.toFixed(2) + ' d', 'error of a plain average by number of steps'], ev.baseline_mae_days);
-    fig('coverage', [pct(ev.coverage), 'of past cases fell inside the ' + pct(ev.interval_level).replace('.0', '') + ' range'], ev.coverage);
+    const covRange = ev.coverage_range && ev.coverage_range[1] > 0 ? ' (measured on other past cases, likely ' + pct(ev.coverage_range[0]) + ' to ' + pct(ev.coverage_range[1]) + ')' : '';
+    fig('coverage', [pct(ev.coverage), 'of past cases fell inside the ' + pct(ev.interval_level).replace('.0', '') + ' range' + covRange], ev.coverage);
     fig('next_accuracy', [pct(ev.next_accuracy), 'next activity guessed right'], ev.next_accuracy);
     if (f.outcome) fig('auc', [ev.auc.toFixed(2), 'how well the chance of "' + f.outcome + '" ranks cases (AUC; 0.5 is a coin)'], ev.auc);
     const rows = el('tbody');
@@ -713,8 +714,14 @@
         el('th', { class: 'num', text: 'Error (d)' }), el('th', { class: 'num', text: 'Plain average (d)' }), el('th', { class: 'num', text: 'Inside the range' }))), rows)));
     const chosen = f.choices ? ' The states were chosen by measurement: ' + f.config.abstraction + ' over ' + (f.config.horizon ? 'the last ' + f.config.horizon + ' activities' : 'the whole case so far') + '.' : '';
     const refined = f.config.attribute ? ' States also tell cases apart by ' + f.config.attribute + '.' : '';
-    const how = el('p', { class: 'muted small', text: chosen + refined + ' Trained on ' + fmtInt(ev.train_cases) + ' cases that ended before ' + ev.cut_date.slice(0, 10) +
-      ', tested on ' + fmtInt(ev.test_prefixes) + ' moments of ' + fmtInt(ev.test_cases) + ' cases that were open then.' +
+    const cuts = (ev.cut_dates || [ev.cut_date]).map((d) => d.slice(0, 10));
+    const tested = cuts.length > 1
+      ? ' Tested at ' + cuts.length + ' past dates (' + cuts.join(', ') + '): each time trained on the cases that had ended by then (' + fmtInt(ev.train_cases) + ' on average)'
+      : ' Trained on ' + fmtInt(ev.train_cases) + ' cases that ended before ' + cuts[0];
+    const ratio = ev.mae_ratio_to_baseline ? ' The error is ' + ev.mae_ratio_to_baseline.toFixed(2) + ' times the plain average\'s' +
+      (ev.mae_ratio_range && ev.mae_ratio_range[1] > 0 ? ' (likely ' + ev.mae_ratio_range[0].toFixed(2) + ' to ' + ev.mae_ratio_range[1].toFixed(2) + ' on other past cases).' : '.') : '';
+    const how = el('p', { class: 'muted small', text: chosen + refined + tested +
+      ', tested on ' + fmtInt(ev.test_prefixes) + ' moments of ' + fmtInt(ev.test_cases) + ' cases that were open then.' + ratio +
       (f.kfold ? ' Across 5 folds of all finished cases: error ' + f.kfold.mae_days.toFixed(2) + ' d, ' + pct(f.kfold.coverage) + ' inside the range.' : '') +
       ' A case is finished when it reaches ' + f.end_activities.join(', ') + '; one silent for more than ' + f.inactive_after_days.toFixed(0) + ' days counts as abandoned (' + fmtInt(f.abandoned_cases) + ').' });
     $('fc-eval').replaceChildren(figs, how, byLen);

@@ -20,7 +20,7 @@ func Choose(l *eventlog.Log, part Partition, opt Options) (Config, []Choice, err
 		for _, h := range []int{0, 1, 2, 3} {
 			o := opt
 			o.Config = Config{Abstraction: a, Horizon: h, Attribute: opt.Config.Attribute}
-			ev, err := KFold(l, part, o, 3)
+			ev, err := kfold(l, part, o, 3)
 			if err != nil {
 				return opt.Config, nil, err
 			}

@@ -72,6 +72,9 @@ func TestEvaluationOnGeneratedLog(t *testing.T) {
 	assert.InDelta(t, 0.8, ev.Coverage, 0.1)
 	assert.Less(t, ev.Ratio, 1.1)
 	assert.Greater(t, ev.AUC, 0.7)
+	for _, r := range []struct{ v, lo, hi float64 }{{ev.Coverage, ev.CoverageRange[0], ev.CoverageRange[1]}, {ev.Ratio, ev.RatioRange[0], ev.RatioRange[1]}} {
+		assert.True(t, r.lo < r.v && r.v < r.hi, "%v in its range [%v, %v]", r.v, r.lo, r.hi)
+	}
 	_, running, err := ForecastRunning(l, part, opt)
 	require.NoError(t, err)
 	assert.Len(t, running, len(part.Running))
@@ -121,6 +124,31 @@ func TestConvergesToAnalyticValues(t *testing.T) {
 		assert.Less(t, errs[2], 0.05, "%s: relative errors by size: %v", what, errs)
 		assert.Less(t, errs[2], errs[0], "%s: more data, closer: %v", what, errs)
 	}
+}
+
+// TestBootstrapRangesAgainstWald: with one prefix per case, the coverage is a binomial
+// proportion, and for n = 2000 its 95% bootstrap percentile interval must agree with the normal
+// approximation p ± 1.96·√(p(1−p)/n) (the Wald interval; common practice) to within a tenth of
+// its width. When every case has ten prefixes that share its fate, the unit drawn is still the
+// case: the interval is that of 2000 draws, not of 20000.
+func TestBootstrapRangesAgainstWald(t *testing.T) {
+	const n = 2000
+	for _, per := range []int{1, 10} {
+		cases := make([]caseScore, n)
+		for i := range cases {
+			cases[i] = caseScore{prefixes: per, err: 1, base: 2}
+			if i%5 != 0 { // 80% covered
+				cases[i].covered = per
+			}
+		}
+		cov, ratio := bootstrapRanges(cases)
+		half := 1.96 * math.Sqrt(0.8*0.2/n)
+		assert.InDelta(t, 0.8-half, cov[0], half/10, "%d prefixes per case", per)
+		assert.InDelta(t, 0.8+half, cov[1], half/10, "%d prefixes per case", per)
+		assert.Equal(t, [2]float64{0.5, 0.5}, ratio, "every case has the same ratio: no spread")
+	}
+	cov, _ := bootstrapRanges(nil)
+	assert.Equal(t, [2]float64{}, cov, "no cases, no range")
 }
 
 func TestKFold(t *testing.T) {

@@ -47,6 +47,39 @@ func TestAgainstGonum(t *testing.T) {
 	}
 }
 
+// TestQuantilesInPlace: selection gives exactly Quantile on a sorted copy (itself checked
+// against gonum above), on samples with many ties (the remaining time at a case's end is
+// always 0), already sorted, reversed, large enough to exercise the partition and small enough
+// for the insertion sort.
+func TestQuantilesInPlace(t *testing.T) {
+	r := rand.New(rand.NewPCG(3, 4))
+	ps := []float64{0, 0.1, 0.25, 0.5, 0.5, 0.75, 0.9, 1}
+	for trial := 0; trial < 300; trial++ {
+		n := 1 + r.IntN(3000)
+		xs := make([]float64, n)
+		for i := range xs {
+			switch trial % 4 {
+			case 0:
+				xs[i] = r.ExpFloat64() * 100
+			case 1:
+				xs[i] = float64(r.IntN(4)) // ties
+			case 2:
+				xs[i] = float64(i) // sorted
+			default:
+				xs[i] = float64(n - i) // reversed
+			}
+		}
+		sorted := slices.Sorted(slices.Values(xs))
+		got := QuantilesInPlace(xs, ps...)
+		for j, p := range ps {
+			assert.Equal(t, Quantile(sorted, p), got[j], "trial %d, n=%d, p=%v", trial, n, p)
+		}
+		assert.ElementsMatch(t, sorted, xs, "only reordered")
+	}
+	got := QuantilesInPlace(nil, 0.5)
+	assert.True(t, math.IsNaN(got[0]))
+}
+
 func TestHistogram(t *testing.T) {
 	bins := Histogram([]float64{0, 1, 2, 3, 4, 10}, 5)
 	counts := []int{}

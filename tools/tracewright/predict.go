@@ -101,9 +101,9 @@ func predictCommand(ctx context.Context, args []string, stdout io.Writer) error 
 		return printJSON(stdout, out)
 	}
 	fmt.Fprintf(stdout, "states: %s over %s; %d completed, %d running, %d abandoned cases\n", a, horizonText(*horizon), len(part.Completed), len(part.Running), len(part.Abandoned))
-	fmt.Fprintf(stdout, "error on past cases (trained before %s, tested on %d prefixes of %d cases):\n", ev.Cut, ev.TestPrefixes, ev.TestCases)
-	fmt.Fprintf(stdout, "  remaining time: %.2f days off on average (%.2fx the mean by number of events, %.2f days)\n", ev.MAEDays, ev.Ratio, ev.BaselineDays)
-	fmt.Fprintf(stdout, "  the %.0f%% interval held the truth for %.1f%% of prefixes; next activity right %.1f%%\n", ev.Level*100, ev.Coverage*100, ev.NextAccuracy*100)
+	fmt.Fprintf(stdout, "error on past cases (cut dates %s; tested on %d prefixes of %d cases open then):\n", strings.Join(ev.Cuts, ", "), ev.TestPrefixes, ev.TestCases)
+	fmt.Fprintf(stdout, "  remaining time: %.2f days off on average (%.2fx the mean by number of events, %.2f days; 95%% range of the ratio %.2f-%.2f)\n", ev.MAEDays, ev.Ratio, ev.BaselineDays, ev.RatioRange[0], ev.RatioRange[1])
+	fmt.Fprintf(stdout, "  the %.0f%% interval held the truth for %.1f%% of prefixes (95%% range %.1f-%.1f%%); next activity right %.1f%%\n", ev.Level*100, ev.Coverage*100, ev.CoverageRange[0]*100, ev.CoverageRange[1]*100, ev.NextAccuracy*100)
 	if opt.Outcome != nil {
 		fmt.Fprintf(stdout, "  %s: Brier %.3f, AUC %.3f\n", opt.Outcome, ev.Brier, ev.AUC)
 	}
