@@ -12,25 +12,35 @@ import (
 //
 // It is an open-addressing hash table of its own rather than a Go map, because interning is the
 // hot loop of intake (a 1M-event log with 100k cases makes 3 to 6 lookups per row, most of them
-// in the large case-id table). Each slot packs the upper half of the key's hash with the key's
-// offset in an arena, so a lookup costs one table access and one arena access and allocates
-// nothing; a Go map costs a third access for the key's string header. Measured on the intake
-// benchmark (1M events, rows in random order): see DEVELOPERS.md.
+// in the large case-id table, and in rows of random order nearly every lookup there misses the
+// processor's caches). A slot holds the key's length, part of its hash and its id, and the key's
+// first 16 bytes, so a lookup of a key of up to 16 bytes (most case ids, activity names are
+// often longer) touches one slot and nothing else; a longer key is compared in the arena only
+// when its first 16 bytes agree. A Go map costs a random access to the key's string header and
+// another to its bytes. Measured on the intake benchmark (1M events, rows in random order): see
+// DEVELOPERS.md.
 //
 // Strings live back to back in arena chunks that are never moved or written again, and Name
 // returns strings that point into them (so a Dict's strings stay valid as long as any is used).
 type Dict struct {
 	seed  uint64
-	slots []uint64 // hash tag << 32 | (id + 1); 0 is empty
+	slots []slot
 	names []string
 	chunk []byte // the arena chunk being filled
+}
+
+// slot is one entry of the table. meta is 0 for an empty slot, else the hash's top 24 bits, the
+// key's length (255 for 255 and more) and id+1: tag<<40 | length<<32 | (id+1).
+type slot struct {
+	meta   uint64
+	k0, k1 uint64 // the key's first 16 bytes, little-endian, zero beyond its end
 }
 
 const arenaChunk = 1 << 20
 
 // NewDict returns an empty dictionary.
 func NewDict() *Dict {
-	return &Dict{seed: rand.Uint64() | 1, slots: make([]uint64, 16)}
+	return &Dict{seed: rand.Uint64() | 1, slots: make([]slot, 16)}
 }
 
 // Intern returns the id of s, adding s if it is new.
@@ -59,23 +69,50 @@ func (d *Dict) InternBatch(keys [][]byte, hashes []uint64, out []int32) {
 	}
 }
 
+// metaOf is a slot's meta without the id, for the key b of hash h.
+func metaOf(h uint64, b []byte) uint64 {
+	return (h>>40)<<40 | uint64(min(len(b), 255))<<32
+}
+
+const idMask = 1<<32 - 1
+
+// prefix returns the first 16 bytes of b as two little-endian words, zero beyond b's end.
+func prefix(b []byte) (k0, k1 uint64) {
+	switch n := len(b); {
+	case n >= 16:
+		return binary.LittleEndian.Uint64(b), binary.LittleEndian.Uint64(b[8:])
+	case n > 8:
+		// the last eight bytes, shifted so that the ones before b[8] fall off
+		return binary.LittleEndian.Uint64(b), binary.LittleEndian.Uint64(b[n-8:]) >> (8 * (16 - n))
+	case n == 8:
+		return binary.LittleEndian.Uint64(b), 0
+	default:
+		for i, c := range b {
+			k0 |= uint64(c) << (8 * i)
+		}
+		return k0, 0
+	}
+}
+
 // intern finds or adds b, whose hash is h, by linear probing.
 func (d *Dict) intern(b []byte, h uint64) int32 {
-	tag := h >> 32
+	want := metaOf(h, b)
+	k0, k1 := prefix(b)
 	mask := uint64(len(d.slots) - 1)
 	for i := h & mask; ; i = (i + 1) & mask {
-		s := d.slots[i]
-		if s == 0 {
+		s := &d.slots[i]
+		if s.meta == 0 {
 			id := int32(len(d.names))
 			d.names = append(d.names, d.store(b))
-			d.slots[i] = tag<<32 | uint64(id+1)
+			*s = slot{meta: want | uint64(id+1), k0: k0, k1: k1}
 			if 2*len(d.names) > len(d.slots) {
 				d.grow()
 			}
 			return id
 		}
-		if s>>32 == tag {
-			if id := int32(uint32(s)) - 1; equal(d.names[id], b) {
+		if s.meta&^idMask == want && s.k0 == k0 && s.k1 == k1 {
+			id := int32(uint32(s.meta)) - 1
+			if len(b) <= 16 || equal(d.names[id], b) {
 				return id
 			}
 		}
@@ -149,32 +186,38 @@ func (d *Dict) store(b []byte) string {
 }
 
 func (d *Dict) grow() {
-	slots := make([]uint64, 2*len(d.slots))
+	slots := make([]slot, 2*len(d.slots))
 	mask := uint64(len(slots) - 1)
-	for id, s := range d.names {
-		h := hash(d.seed, unsafe.Slice(unsafe.StringData(s), len(s)))
-		i := h & mask
-		for slots[i] != 0 {
+	for _, s := range d.slots {
+		if s.meta == 0 {
+			continue
+		}
+		id := int32(uint32(s.meta)) - 1
+		name := d.names[id]
+		i := hash(d.seed, unsafe.Slice(unsafe.StringData(name), len(name))) & mask
+		for slots[i].meta != 0 {
 			i = (i + 1) & mask
 		}
-		slots[i] = (h>>32)<<32 | uint64(id+1)
+		slots[i] = s
 	}
 	d.slots = slots
 }
 
 // Lookup returns the id of s and whether s is known.
 func (d *Dict) Lookup(s string) (int32, bool) {
-	h := hash(d.seed, unsafe.Slice(unsafe.StringData(s), len(s)))
-	tag := h >> 32
+	b := unsafe.Slice(unsafe.StringData(s), len(s))
+	h := hash(d.seed, b)
+	want := metaOf(h, b)
+	k0, k1 := prefix(b)
 	mask := uint64(len(d.slots) - 1)
 	for i := h & mask; ; i = (i + 1) & mask {
-		sl := d.slots[i]
-		if sl == 0 {
+		sl := &d.slots[i]
+		if sl.meta == 0 {
 			return -1, false
 		}
-		if sl>>32 == tag {
-			id := int32(uint32(sl)) - 1
-			if d.names[id] == s {
+		if sl.meta&^idMask == want && sl.k0 == k0 && sl.k1 == k1 {
+			id := int32(uint32(sl.meta)) - 1
+			if len(b) <= 16 || d.names[id] == s {
 				return id, true
 			}
 		}
@@ -193,7 +236,7 @@ func (d *Dict) Names() []string { return d.names }
 
 // size estimates the bytes the dictionary holds: the strings' bytes and headers and the table.
 func (d *Dict) size() int {
-	n := 8*len(d.slots) + 16*cap(d.names)
+	n := int(unsafe.Sizeof(slot{}))*len(d.slots) + 16*cap(d.names)
 	for _, s := range d.names {
 		n += len(s)
 	}
