@@ -10,10 +10,15 @@
 // A Format is compiled from a layout of our own, written the way people describe dates:
 //
 //	YYYY  four-digit year          MM / M   month, two digits / one or two
+//	YY    two-digit year: 69-99 are 1969-1999, 00-68 are 2000-2068 (as POSIX strptime's %y)
+//	MMM   month name or abbreviation, in English, German, French, Spanish, Italian, Dutch or
+//	      Portuguese, any case, with or without a period (Dec, dez., Dezember, févr., mrt)
 //	DD / D  day                    hh / h   hour (0-23, or 1-12 with AP)
+//	WWW   weekday name in English (Tue, Tuesday), read but not checked against the date
 //	mm    minutes                  ss       seconds (60 allowed, RFC 3339 section 5.6)
 //	.f    a fraction of a second, 1 to 9 digits, after '.' or ','
-//	Z     a zone: Z, +hh:mm, +hhmm or +hh (RFC 3339 section 5.6, ISO 8601)
+//	Z     a zone: Z, +hh:mm, +hhmm or +hh (RFC 3339 section 5.6, ISO 8601), or UTC, GMT or UT
+//	      (RFC 5322 section 4.3)
 //	AP    AM or PM, any case
 //	[...] an optional part      any other character stands for itself
 //

@@ -28,6 +28,9 @@ const (
 	itFrac
 	itZone
 	itAMPM
+	itMonthName
+	itYear2
+	itWeekday
 	itGroup
 )
 
@@ -70,8 +73,8 @@ func ParseFormat(layout string) (*Format, error) {
 	}
 	var seen [itGroup]bool
 	mark(items, &seen)
-	if !seen[itYear] || !(seen[itMonth] || seen[itMonth2]) || !(seen[itDay] || seen[itDay2]) {
-		return nil, fmt.Errorf("%w %q: needs a year (YYYY), a month (MM or M) and a day (DD or D)", ErrLayout, layout)
+	if !(seen[itYear] || seen[itYear2]) || !(seen[itMonth] || seen[itMonth2] || seen[itMonthName]) || !(seen[itDay] || seen[itDay2]) {
+		return nil, fmt.Errorf("%w %q: needs a year (YYYY or YY), a month (MM, M or MMM) and a day (DD or D)", ErrLayout, layout)
 	}
 	if f.ampm && seen[itHour2] {
 		return nil, fmt.Errorf("%w %q: AP goes with h (1-12), not hh", ErrLayout, layout)
@@ -100,7 +103,8 @@ var tokens = []struct {
 	text string
 	kind itemKind
 }{
-	{"YYYY", itYear}, {"MM", itMonth2}, {"M", itMonth}, {"DD", itDay2}, {"D", itDay},
+	{"YYYY", itYear}, {"YY", itYear2}, {"MMM", itMonthName}, {"MM", itMonth2}, {"M", itMonth},
+	{"WWW", itWeekday}, {"DD", itDay2}, {"D", itDay},
 	{"hh", itHour2}, {"h", itHour}, {"mm", itMin}, {"ss", itSec}, {".f", itFrac}, {",f", itFrac},
 	{"AP", itAMPM}, {"Z", itZone},
 }
@@ -222,6 +226,19 @@ func match(items []item, b []byte, i int, v *fields) (int, bool) {
 			}
 		case itYear:
 			v.year, i, ok = digits(b, i, 4, 4)
+		case itYear2:
+			// POSIX strptime's %y: 69-99 are 1969-1999, 00-68 are 2000-2068 (IEEE Std 1003.1)
+			if v.year, i, ok = digits(b, i, 2, 2); ok {
+				if v.year >= 69 {
+					v.year += 1900
+				} else {
+					v.year += 2000
+				}
+			}
+		case itMonthName:
+			v.month, i, ok = monthName(b, i)
+		case itWeekday:
+			i, ok = weekdayName(b, i)
 		case itMonth2:
 			v.month, i, ok = digits(b, i, 2, 2)
 		case itMonth:
@@ -287,6 +304,12 @@ func zone(b []byte, i int, v *fields) (int, bool) {
 		return i + 1, true
 	}
 	if b[i] != '+' && b[i] != '-' {
+		// RFC 5322 section 4.3 (obsolete zones): UT and GMT are +0000; UTC is its common spelling
+		for _, name := range [...]string{"utc", "gmt", "ut"} {
+			if len(b)-i >= len(name) && lowerIs(b[i:i+len(name)], name) {
+				return i + len(name), true
+			}
+		}
 		return i, false
 	}
 	sign := int64(1)
@@ -312,6 +335,16 @@ func zone(b []byte, i int, v *fields) (int, bool) {
 	}
 	v.zone = sign * (h*3600 + m*60)
 	return j, true
+}
+
+// lowerIs reports whether b, its ASCII letters lowered, is s (lower case).
+func lowerIs(b []byte, s string) bool {
+	for k := range b {
+		if b[k]|0x20 != s[k] {
+			return false
+		}
+	}
+	return true
 }
 
 func (v *fields) unix(ampm bool) (int64, bool) {

@@ -33,6 +33,13 @@ var Candidates = []string{
 	"M/D/YYYY h:mm[:ss] AP",
 	"D-M-YYYY[ h:mm[:ss[.f]]]",
 	"M-D-YYYY[ h:mm[:ss[.f]]]",
+	"D MMM YYYY[ h:mm[:ss[.f]]]",
+	"D. MMM YYYY[ h:mm[:ss[.f]]]",
+	"D-MMM-YYYY[ h:mm[:ss[.f]]]",
+	"D-MMM-YY[ h:mm[:ss[.f]]]",
+	"MMM D, YYYY[ h:mm[:ss[.f]]]",
+	"MMM D, YYYY h:mm[:ss] AP",
+	"WWW, D MMM YYYY hh:mm[:ss] Z",
 	"epoch-s",
 	"epoch-ms",
 }
@@ -120,6 +127,9 @@ func InferShare(sample []string, minShare float64) Inference {
 // swapDM returns the layout with its day and month fields swapped, or "" for a layout that
 // starts with the year (whose order is never in doubt).
 func swapDM(layout string) string {
+	if strings.Contains(layout, "MMM") {
+		return "" // a month name is never a day
+	}
 	switch {
 	case strings.HasPrefix(layout, "D/M"), strings.HasPrefix(layout, "D-M"):
 		return "M" + layout[1:2] + "D" + layout[3:]

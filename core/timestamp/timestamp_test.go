@@ -100,6 +100,68 @@ func TestLayouts(t *testing.T) {
 	}
 }
 
+// TestMonthNames checks the named-month layouts against the Go standard library's time.Parse as
+// the reference reading, on the date-time examples of RFC 5322 (Resnick 2008), appendix A.1.1
+// and A.6.2 (two-digit year and "GMT", from its obsolete syntax, section 4.3), on Oracle's
+// default DD-MON-RR dates, and on written English dates.
+func TestMonthNames(t *testing.T) {
+	for _, tc := range []struct{ layout, in, goLayout string }{
+		{"WWW, D MMM YYYY hh:mm[:ss] Z", "Fri, 21 Nov 1997 09:55:06 -0600", time.RFC1123Z},
+		{"WWW, D MMM YYYY hh:mm[:ss] Z", "Tue, 1 Jul 2003 10:52:37 +0200", "Mon, 2 Jan 2006 15:04:05 -0700"},
+		{"D MMM YY hh:mm:ss Z", "21 Nov 97 09:55:06 GMT", "02 Jan 06 15:04:05 MST"},
+		{"D-MMM-YY", "02-DEC-26", "02-Jan-06"},
+		{"D-MMM-YY", "15-jan-69", "02-Jan-06"},
+		{"D MMM YYYY[ h:mm[:ss[.f]]]", "5 Mar 2024 7:08", "2 Jan 2006 15:04"},
+		{"D MMM YYYY[ h:mm[:ss[.f]]]", "05 September 2024", "02 January 2006"},
+		{"MMM D, YYYY h:mm[:ss] AP", "Dec 2, 2026 8:15 AM", "Jan 2, 2006 3:04 PM"},
+		{"MMM D, YYYY[ h:mm[:ss[.f]]]", "February 29, 2024 23:59:59.5", "January 2, 2006 15:04:05.0"},
+	} {
+		t.Run(tc.in, func(t *testing.T) {
+			f, err := ParseFormat(tc.layout)
+			require.NoError(t, err)
+			got, ok := f.ParseString(tc.in)
+			require.True(t, ok)
+			assert.Equal(t, micro(t, tc.goLayout, tc.in), got)
+		})
+	}
+	// Other languages, from the CLDR abbreviations (from memory; see names.go).
+	f, err := ParseFormat("D[.] MMM YYYY[ h:mm]")
+	require.NoError(t, err)
+	for in, want := range map[string]string{
+		"2. Dez. 2026 08:15": "2026-12-02T08:15:00Z", "3. März 2025": "2025-03-03T00:00:00Z",
+		"2 févr. 2026": "2026-02-02T00:00:00Z", "14 juil. 2025": "2025-07-14T00:00:00Z", "15 aout 2025": "2025-08-15T00:00:00Z",
+		"3 ene 2025": "2025-01-03T00:00:00Z", "1 gen 2025": "2025-01-01T00:00:00Z", "5 mrt 2024": "2024-03-05T00:00:00Z",
+		"10 out 2024": "2024-10-10T00:00:00Z", "7 MEI 2024": "2024-05-07T00:00:00Z",
+	} {
+		got, ok := f.ParseString(in)
+		if assert.True(t, ok, in) {
+			assert.Equal(t, want, FormatRFC3339(got), in)
+		}
+	}
+	for _, bad := range []string{"2 Foo 2026", "31 Feb 2024", "2 Decembers 2026", "2 12 2026", "2 . 2026"} {
+		_, ok := f.ParseString(bad)
+		assert.False(t, ok, bad)
+	}
+	w, _ := ParseFormat("WWW, D MMM YYYY hh:mm[:ss] Z")
+	_, ok := w.ParseString("Fry, 21 Nov 1997 09:55:06 -0600")
+	assert.False(t, ok, "not a weekday")
+}
+
+// TestNamesAreUnambiguous: no name stands for two months, and none is a weekday's.
+func TestNamesAreUnambiguous(t *testing.T) {
+	seen := map[string]int{}
+	for m, names := range monthNameList {
+		for _, n := range names {
+			if prev, ok := seen[n]; ok && prev != m {
+				t.Errorf("%q is month %d and %d", n, prev+1, m+1)
+			}
+			seen[n] = m
+			assert.False(t, weekdayNames[n], n)
+			assert.LessOrEqual(t, len(n), 16, n)
+		}
+	}
+}
+
 func TestBadLayouts(t *testing.T) {
 	for _, l := range []string{"hh:mm", "YYYY-MM", "[YYYY-MM-DD", "YYYY-MM-DD]", "YYYY-MM-DD hh AP"} {
 		_, err := ParseFormat(l)
@@ -125,6 +187,11 @@ func TestInfer(t *testing.T) {
 		{"amounts are not epochs", []string{"1200", "15"}, "", false},
 		{"one bad value in twenty still infers", append(repeat("2024-03-05", 19), "n/a"), "YYYY-MM-DD", false},
 		{"text", []string{"Register", "Inspect"}, "", false},
+		{"month names", []string{"02 Dec 2026 08:15", "15 Jan 2025 17:01:02"}, "D MMM YYYY[ h:mm[:ss[.f]]]", false},
+		{"german month names", []string{"2. Dez. 2026 08:15", "3. März 2025"}, "D. MMM YYYY[ h:mm[:ss[.f]]]", false},
+		{"oracle", []string{"02-DEC-26", "15-JAN-25"}, "D-MMM-YY[ h:mm[:ss[.f]]]", false},
+		{"written english", []string{"Dec 2, 2026 8:15 AM", "Jan 15, 2025 11:59 PM"}, "MMM D, YYYY h:mm[:ss] AP", false},
+		{"rfc 5322", []string{"Fri, 21 Nov 1997 09:55:06 -0600", "Tue, 1 Jul 2003 10:52:37 GMT"}, "WWW, D MMM YYYY hh:mm[:ss] Z", false},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			inf := Infer(tc.sample)
@@ -162,6 +229,8 @@ func FuzzParse(f *testing.F) {
 	f.Add("YYYY-MM-DDThh:mm[:ss[.f]][Z]", "2024-03-05T07:08:09.123+01:00")
 	f.Add("M/D/YYYY h:mm[:ss] AP", "3/5/2024 7:08 PM")
 	f.Add("epoch-ms", "1709622489250")
+	f.Add("WWW, D MMM YYYY hh:mm[:ss] Z", "Fri, 21 Nov 1997 09:55:06 GMT")
+	f.Add("D. MMM YY", "2. févr. 26")
 	f.Fuzz(func(t *testing.T, layout, value string) {
 		fm, err := ParseFormat(layout)
 		if err != nil {
