@@ -8,6 +8,7 @@ import (
 	"io"
 	"regexp"
 	"strings"
+	"unsafe"
 
 	"tracewright/core/eventlog"
 	"tracewright/core/timestamp"
@@ -55,9 +56,10 @@ func (c *countingReader) Read(p []byte) (int, error) {
 	return n, err
 }
 
+// xesEvent is an event of the trace being read: its attributes are x.pool[from:to].
 type xesEvent struct {
-	line  int
-	attrs []eventlog.Nested
+	line     int
+	from, to int
 }
 
 type xesReader struct {
@@ -72,7 +74,50 @@ type xesReader struct {
 	trace int      // traces read, for names of traces without one
 
 	lastProgress int64
+
+	// What one trace needs, kept from trace to trace so that reading allocates little: the
+	// events, their attributes side by side, a scratch list for globals, and an arena that holds
+	// the trace's attribute values (see text).
+	events  []xesEvent
+	pool    []eventlog.Nested
+	scratch []eventlog.Nested
+	arena   []byte
+	inTrace bool
+	names   map[string]string // element names and keys, each allocated once
+	grown   bool              // the columns were sized from the first megabyte
 }
+
+// name returns b as a string shared by every element or key of that name.
+func (x *xesReader) name(b []byte) string {
+	if s, ok := x.names[string(b)]; ok {
+		return s
+	}
+	s := string(b)
+	if len(x.names) < 10_000 { // a file of ever new keys must not grow this without end
+		x.names[s] = s
+	}
+	return s
+}
+
+// text returns an attribute value as a string. Inside a trace it points into x.arena, which the
+// next trace writes over: such strings must be copied by whatever keeps them (the builder's
+// dictionaries copy what they intern; errors clone their value). Values outside traces (the
+// log's attributes and globals) are kept for the whole read, so they are allocated.
+func (x *xesReader) text(b []byte) string {
+	if !x.inTrace || len(b) == 0 {
+		return string(b)
+	}
+	if cap(x.arena)-len(x.arena) < len(b) {
+		// a new chunk; the old one stays alive as long as a string points into it
+		x.arena = make([]byte, 0, max(64<<10, 2*len(b)))
+	}
+	start := len(x.arena)
+	x.arena = append(x.arena, b...)
+	return unsafe.String(&x.arena[start], len(b))
+}
+
+// bytesOf views s as bytes for a call that only reads them (and copies what it keeps).
+func bytesOf(s string) []byte { return unsafe.Slice(unsafe.StringData(s), len(s)) }
 
 // ReadXES reads an event log from XES XML (IEEE 1849-2016) as a stream of tokens: memory holds the
 // log's columns and one trace at a time, never the document. Each trace becomes a case (named by
@@ -89,7 +134,8 @@ func ReadXES(ctx context.Context, r io.Reader, opt XESOptions) (*eventlog.Log, *
 		return nil, &Report{Format: "xes", Problems: newProblems(opt.MaxReported)}, err
 	}
 	x := &xesReader{ctx: ctx, cr: cr, s: newXMLScanner(ctx, text), opt: opt, b: eventlog.NewBuilder(),
-		rep: &Report{Format: "xes", Problems: newProblems(opt.MaxReported)}, meta: eventlog.Meta{Format: "xes"}}
+		rep: &Report{Format: "xes", Problems: newProblems(opt.MaxReported)}, meta: eventlog.Meta{Format: "xes"},
+		names: map[string]string{}}
 	if err := x.run(); err != nil {
 		return nil, x.rep, err
 	}
@@ -192,7 +238,7 @@ func (x *xesReader) run() error {
 				if scope, _ := tok.attr("scope"); scope == "trace" {
 					lvl = eventlog.CaseLevel
 				}
-				kids, err := x.children()
+				kids, err := x.children(nil)
 				if err != nil {
 					return err
 				}
@@ -273,21 +319,20 @@ func splitKeys(s string) []string {
 // attribute reads one attribute element and what it nests: a list's <values>, a container's
 // members, or the meta-attributes any attribute may carry (IEEE 1849-2016, section 5.3).
 func (x *xesReader) attribute(tok *xmlToken) (eventlog.Nested, error) {
-	key, hasKey := tok.attr("key")
-	value, _ := tok.attr("value")
-	n := eventlog.Nested{Type: string(tok.name), Key: key, Value: value}
+	key, hasKey := tok.attrBytes("key")
+	value, _ := tok.attrBytes("value")
+	n := eventlog.Nested{Type: x.name(tok.name), Key: x.name(key), Value: x.text(value)}
 	if !hasKey {
 		return n, &SyntaxError{Line: tok.line, Column: tok.col, Err: fmt.Errorf("%w: <%s> without a key", ErrXES, tok.name)}
 	}
-	kids, err := x.children()
+	kids, err := x.children(nil)
 	n.Children = kids
 	return n, err
 }
 
 // children reads the attribute elements inside the current element up to its end, flattening a
 // list's <values> wrapper.
-func (x *xesReader) children() ([]eventlog.Nested, error) {
-	var out []eventlog.Nested
+func (x *xesReader) children(out []eventlog.Nested) ([]eventlog.Nested, error) {
 	for {
 		tok, err := x.token()
 		if err != nil {
@@ -300,11 +345,10 @@ func (x *xesReader) children() ([]eventlog.Nested, error) {
 			return out, nil
 		case xmlStart:
 			if string(tok.name) == "values" {
-				kids, err := x.children()
-				if err != nil {
+				var err error
+				if out, err = x.children(out); err != nil {
 					return nil, err
 				}
-				out = append(out, kids...)
 				continue
 			}
 			if _, ok := xesKinds[string(tok.name)]; !ok {
@@ -324,8 +368,11 @@ func (x *xesReader) children() ([]eventlog.Nested, error) {
 
 func (x *xesReader) readTrace(traceLine int) error {
 	x.trace++
+	x.inTrace = true
+	defer func() { x.inTrace = false }()
+	x.arena = x.arena[:0] // the last trace's values are no longer used
+	x.events, x.pool = x.events[:0], x.pool[:0]
 	var tattrs []eventlog.Nested
-	var events []xesEvent
 	for {
 		tok, err := x.token()
 		if err != nil {
@@ -335,15 +382,14 @@ func (x *xesReader) readTrace(traceLine int) error {
 		case xmlEOF:
 			return x.unexpectedEnd()
 		case xmlEnd:
-			return x.addTrace(traceLine, tattrs, events)
+			return x.addTrace(traceLine, tattrs, x.events)
 		case xmlStart:
 			if string(tok.name) == "event" {
-				line := tok.line
-				kids, err := x.children()
-				if err != nil {
+				line, from := tok.line, len(x.pool)
+				if x.pool, err = x.children(x.pool); err != nil {
 					return err
 				}
-				events = append(events, xesEvent{line: line, attrs: kids})
+				x.events = append(x.events, xesEvent{line: line, from: from, to: len(x.pool)})
 				x.rep.Rows++
 				continue
 			}
@@ -399,24 +445,38 @@ func (x *xesReader) addTrace(line int, tattrs []eventlog.Nested, events []xesEve
 		}
 		x.rep.Warnings = append(x.rep.Warnings, fmt.Sprintf("line %d: a trace repeats the case id %q; it is read as %q", line, base, name))
 	}
-	c := x.b.Case([]byte(name))
+	c := x.b.Case(bytesOf(name))
 	for _, a := range tattrs {
 		if a.Key == keyName && len(a.Children) == 0 {
 			continue
 		}
 		kind, text := stored(a)
-		x.b.SetCaseValue(x.b.CaseColumn(a.Key, kind), c, []byte(text))
+		x.b.SetCaseValue(x.b.CaseColumn(a.Key, kind), c, bytesOf(text))
 	}
 	for _, ev := range events {
 		if err := x.addEvent(c, ev); err != nil {
 			return err
 		}
 	}
+	if !x.grown && x.opt.Size > 0 && x.cr.n >= 1<<20 {
+		// Size the columns once from the density of the first megabyte (bytes as stored, so
+		// gzip's ratio cancels out), with ReadCSV's 3% margin: growing by doubling copied each
+		// column several times and took a fifth of the read.
+		x.grown = true
+		n := x.b.NumEvents()
+		if est := int(float64(n) / float64(x.cr.n) * float64(x.opt.Size) * 1.03); est > n {
+			x.b.Grow(est - n)
+		}
+	}
 	return nil
 }
 
 func (x *xesReader) addEvent(c int32, ev xesEvent) error {
-	attrs := x.withGlobals(ev.attrs, eventlog.EventLevel)
+	attrs := x.pool[ev.from:ev.to]
+	if len(x.meta.Globals) > 0 {
+		x.scratch = x.withGlobals(append(x.scratch[:0], attrs...), eventlog.EventLevel)
+		attrs = x.scratch
+	}
 	var name, res, life string
 	var t int64 = eventlog.NoTime
 	byKey := func(k string) (eventlog.Nested, bool) {
@@ -428,7 +488,7 @@ func (x *xesReader) addEvent(c int32, ev xesEvent) error {
 		return eventlog.Nested{}, false
 	}
 	fail := func(key, value string, cause error) error {
-		e := &RowError{Line: ev.line, Column: key, Value: value, Err: cause}
+		e := &RowError{Line: ev.line, Column: key, Value: strings.Clone(value), Err: cause}
 		if x.opt.OnError == Stop {
 			return e
 		}
@@ -463,11 +523,11 @@ func (x *xesReader) addEvent(c int32, ev xesEvent) error {
 	if a, ok := byKey(keyLifecycle); ok {
 		life = a.Value
 	}
-	lc, err := x.b.Lifecycle([]byte(life))
+	lc, err := x.b.Lifecycle(bytesOf(life))
 	if err != nil {
-		return &RowError{Line: ev.line, Column: keyLifecycle, Value: life, Err: fmt.Errorf("%w: %w", ErrLifecycle, err)}
+		return &RowError{Line: ev.line, Column: keyLifecycle, Value: strings.Clone(life), Err: fmt.Errorf("%w: %w", ErrLifecycle, err)}
 	}
-	idx, err := x.b.Add(eventlog.Event{Case: c, Activity: x.b.Activity([]byte(name)), Resource: x.b.Resource([]byte(res)), Time: t, Life: lc, Row: int32(ev.line)})
+	idx, err := x.b.Add(eventlog.Event{Case: c, Activity: x.b.Activity(bytesOf(name)), Resource: x.b.Resource(bytesOf(res)), Time: t, Life: lc, Row: int32(ev.line)})
 	if err != nil {
 		return err
 	}
@@ -483,7 +543,7 @@ func (x *xesReader) addEvent(c int32, ev xesEvent) error {
 			}
 		}
 		kind, text := stored(a)
-		x.b.SetEventValue(x.b.EventColumn(a.Key, kind), idx, []byte(text))
+		x.b.SetEventValue(x.b.EventColumn(a.Key, kind), idx, bytesOf(text))
 	}
 	return nil
 }

@@ -3,7 +3,9 @@ package intake
 import (
 	"context"
 	"errors"
+	"fmt"
 	"os"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -148,6 +150,45 @@ func TestXESSkip(t *testing.T) {
 	assert.Equal(t, 1, l.NumEvents())
 	assert.Equal(t, 1, rep.Problems.Skipped)
 	assert.Equal(t, 3, rep.Problems.First[0].Line)
+}
+
+// TestXESValuesOutliveTheirTrace: a trace's values are read into an arena that the next trace
+// writes over, so everything kept of them must be a copy. Many traces with values of the same
+// lengths (which an overwrite would not show by length), kept as case ids, activities,
+// resources, attribute values and the text of a set-aside event, must read back unchanged.
+func TestXESValuesOutliveTheirTrace(t *testing.T) {
+	var b strings.Builder
+	b.WriteString("<log>")
+	for i := range 300 {
+		b.WriteString("<trace>")
+		if i == 0 { // first, so that its text sits where the next trace's values go
+			b.WriteString(`<event><string key="concept:name" value="x"/><date key="time:timestamp" value="not-a-time"/></event>`)
+		}
+		fmt.Fprintf(&b, `<string key="concept:name" value="case-%03d"/><string key="region" value="r-%03d"/>`, i, i)
+		fmt.Fprintf(&b, `<event><string key="concept:name" value="act-%03d"/><string key="org:resource" value="res-%03d"/>`, i%7, i%5)
+		fmt.Fprintf(&b, `<int key="amount" value="%d"/><date key="time:timestamp" value="2024-01-01T00:%02d:00Z"/></event>`, 1000+i, i%60)
+		b.WriteString("</trace>")
+	}
+	b.WriteString("</log>")
+	l, rep, err := readString(t, b.String(), Options{OnError: Skip})
+	require.NoError(t, err)
+	require.Equal(t, 300, l.NumCases())
+	region, amount := l.CaseAttr("region"), l.EventAttr("amount")
+	require.NotNil(t, region)
+	require.NotNil(t, amount)
+	for c := range 300 {
+		i, err := strconv.Atoi(strings.TrimPrefix(l.CaseID(c), "case-"))
+		require.NoError(t, err, l.CaseID(c))
+		v, _ := region.Text(c)
+		assert.Equal(t, fmt.Sprintf("r-%03d", i), v)
+		ev := int(l.CaseStart[c])
+		assert.Equal(t, fmt.Sprintf("act-%03d", i%7), l.Activities.Name(l.Act[ev]))
+		assert.Equal(t, fmt.Sprintf("res-%03d", i%5), l.Resources.Name(l.Res[ev]))
+		a, _ := amount.Text(ev)
+		assert.Equal(t, strconv.Itoa(1000+i), a)
+	}
+	require.Equal(t, 1, rep.Problems.Skipped)
+	assert.Equal(t, "not-a-time", rep.Problems.First[0].Value)
 }
 
 func TestXESLatin1Declared(t *testing.T) {

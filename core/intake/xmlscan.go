@@ -353,7 +353,13 @@ func (s *xmlScanner) markup(data []byte) (*xmlToken, int, error) {
 		attrs = append(attrs, xmlAttr{name: local(data[a.n0:a.n1]), value: s.scratch[a.v0:a.v1]})
 	}
 	s.started = true
-	s.stack = append(s.stack, append([]byte(nil), name...))
+	// push a copy of the name, reusing the buffer a closed element at this depth left behind
+	if n := len(s.stack); n < cap(s.stack) {
+		s.stack = s.stack[:n+1]
+		s.stack[n] = append(s.stack[n][:0], name...)
+	} else {
+		s.stack = append(s.stack, append([]byte(nil), name...))
+	}
 	line, col := s.position(s.pos)
 	s.tok = xmlToken{kind: xmlStart, name: local(s.stack[len(s.stack)-1]), attrs: attrs, line: line, col: col}
 	s.pending = selfClose
@@ -453,6 +459,16 @@ func (s *xmlScanner) skip() error {
 	return nil
 }
 
+// attrBytes is attr without a copy: the bytes are the scanner's, valid until the next token.
+func (t *xmlToken) attrBytes(name string) ([]byte, bool) {
+	for _, a := range t.attrs {
+		if string(a.name) == name {
+			return a.value, true
+		}
+	}
+	return nil, false
+}
+
 func (t *xmlToken) attr(name string) (string, bool) {
 	for _, a := range t.attrs {
 		if string(a.name) == name {
@@ -462,8 +478,10 @@ func (t *xmlToken) attr(name string) (string, bool) {
 	return "", false
 }
 
+// local drops a namespace prefix as encoding/xml does: at the first colon, and only when both
+// the prefix and the rest are non-empty (a name ":" or "a:" is kept whole).
 func local(name []byte) []byte {
-	if i := bytes.LastIndexByte(name, ':'); i >= 0 {
+	if i := bytes.IndexByte(name, ':'); i >= 1 && i <= len(name)-2 {
 		return name[i+1:]
 	}
 	return name
