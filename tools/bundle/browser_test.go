@@ -217,6 +217,9 @@ func TestDropALog(t *testing.T) {
 				chromedp.WaitVisible(chromedp.CSS(`#mapping`)),
 			))
 			shot(t, ctx, "mapping-"+origin.name)
+			shown, err := chromedp.Run(ctx, chromedp.Evaluate[string](`getComputedStyle(document.getElementById('views')).display`))
+			require.NoError(t, err)
+			assert.Equal(t, "none", shown, "no views to switch to before a log is read")
 			require.NoError(t, chromedp.Do(ctx,
 				chromedp.Click(chromedp.CSS(`#read-button`)),
 				chromedp.WaitVisible(chromedp.CSS(`#overview[data-ready="true"]`)),
