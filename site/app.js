@@ -623,6 +623,8 @@
   }
 
   let forecast = null;
+  let fcRunning = 0;
+  $('fc-stop').addEventListener('click', () => { if (fcRunning) call('cancel', { id: fcRunning }); });
   async function runForecast() {
     const kind = $('fc-outcome-kind').value;
     let arg = $('fc-outcome-arg').value.trim();
@@ -630,13 +632,22 @@
     const ends = [...$('fc-ends').querySelectorAll('input:checked')].map((i) => i.value);
     const opts = { abstraction: $('fc-abs').value, horizon: Number($('fc-horizon').value), kfold: 5,
       outcome: kind && arg ? kind + ':' + arg : '', export_date: $('fc-export').value, end_activities: ends, attribute: $('fc-attr').value };
-    $('fc-eval').replaceChildren(el('p', { class: 'muted', text: 'Measuring on past cases…' }));
+    if (fcRunning) return;
+    const status = el('p', { class: 'muted', text: 'Measuring on past cases…' });
+    $('fc-eval').replaceChildren(status);
+    const progress = (p) => { status.textContent = 'Measuring on past cases… ' + fmtInt(p.models_done) + ' of ' + fmtInt(p.models) + ' models fitted.'; };
     try {
-      const { done } = await call('forecast', opts);
+      const { id, done } = await call('forecast', opts, null, progress);
+      fcRunning = id;
+      $('fc-stop').hidden = false;
       forecast = await done;
       renderForecast();
     } catch (err) {
-      $('fc-eval').replaceChildren(el('p', { class: 'bad', text: err.message || String(err) }));
+      const stopped = err && err.cause === 'cancelled';
+      $('fc-eval').replaceChildren(el('p', { class: stopped ? 'muted' : 'bad', text: stopped ? 'Stopped; nothing was forecast.' : err.message || String(err) }));
+    } finally {
+      fcRunning = 0;
+      $('fc-stop').hidden = true;
     }
   }
   $('fc-run').addEventListener('click', runForecast);

@@ -131,7 +131,7 @@ func (e *Engine) Handle(ctx context.Context, req Request, file *File, emit func(
 	case "case_events":
 		payload, err = e.caseEvents(req.Payload)
 	case "forecast":
-		payload, err = e.forecast(req.Payload)
+		payload, err = e.forecast(ctx, req, emit)
 	case "conformance":
 		payload, err = e.conformance(ctx, req, file, emit)
 	case "conformance_cases":
@@ -621,7 +621,15 @@ type ForecastResult struct {
 	Running       []predict.RunningForecast `json:"running"`
 }
 
-func (e *Engine) forecast(raw json.RawMessage) (*ForecastResult, error) {
+// ForecastProgress is the progress message of a forecast request: how many of the models it
+// fits (one per fold, cut date and candidate state definition) are done.
+type ForecastProgress struct {
+	Done  int `json:"models_done"`
+	Total int `json:"models"`
+}
+
+func (e *Engine) forecast(ctx context.Context, req Request, emit func(Response)) (*ForecastResult, error) {
+	raw := req.Payload
 	var o ForecastOptions
 	if len(raw) > 0 {
 		if err := json.Unmarshal(raw, &o); err != nil {
@@ -668,6 +676,28 @@ func (e *Engine) forecast(raw json.RawMessage) (*ForecastResult, error) {
 	}
 	part := predict.Split(l, opt)
 	res.EndActivities, res.Completed, res.Abandoned = part.EndActivities, len(part.Completed), len(part.Abandoned)
+	// Progress by models fitted: 36 to choose the states, 3 cut dates, the folds, and the final
+	// model. Between models the host gets a turn (Yield), so that a cancel can arrive.
+	total := 3 + 1
+	if auto {
+		total += 36
+	}
+	if o.KFold > 1 {
+		total += o.KFold
+	}
+	ctx, done := e.cancellable(ctx, req.ID)
+	defer done()
+	fitted := 0
+	opt.Step = func() error {
+		fitted++
+		if emit != nil {
+			emit(Response{V: APIVersion, ID: req.ID, Kind: "progress", Payload: ForecastProgress{Done: min(fitted, total), Total: total}})
+		}
+		if e.Yield != nil {
+			e.Yield()
+		}
+		return ctx.Err()
+	}
 	if auto {
 		if opt.Config, res.Choices, err = predict.Choose(l, part, opt); err != nil {
 			return nil, err

@@ -201,9 +201,19 @@ func TestForecast(t *testing.T) {
 	assert.NotEmpty(t, f.Running)
 	assert.Positive(t, f.Evaluation.TestPrefixes)
 	assert.NotNil(t, f.KFold)
-	r = e.Handle(context.Background(), req("forecast", 4, `{"abstraction":"auto","end_activities":["Hand over bike","Return bike"],"export_date":"2025-04-30"}`), nil, nil)
+	var progress []ForecastProgress
+	r = e.Handle(context.Background(), req("forecast", 4, `{"abstraction":"auto","end_activities":["Hand over bike","Return bike"],"export_date":"2025-04-30","kfold":5}`), nil,
+		func(p Response) { progress = append(progress, p.Payload.(ForecastProgress)) })
 	require.Equal(t, "result", r.Kind, "%v", r.Payload)
 	assert.Len(t, r.Payload.(*ForecastResult).Choices, 12)
+	require.Len(t, progress, 36+3+5+1, "one message per model: 36 candidates, 3 cut dates, 5 folds, the forecasts")
+	assert.Equal(t, ForecastProgress{Done: 45, Total: 45}, progress[len(progress)-1])
+	// a cancelled forecast stops after the model it is fitting and says so
+	stopped, stop := context.WithCancel(context.Background())
+	stop()
+	r = e.Handle(stopped, req("forecast", 8, `{"abstraction":"auto"}`), nil, nil)
+	require.Equal(t, "error", r.Kind)
+	assert.Equal(t, "cancelled", r.Payload.(ErrorPayload).Cause)
 	r = e.Handle(context.Background(), req("forecast", 3, `{"outcome":"someday"}`), nil, nil)
 	assert.Equal(t, "error", r.Kind)
 

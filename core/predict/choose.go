@@ -8,12 +8,26 @@ type Choice struct {
 	MAEDays float64 `json:"mae_days"`
 }
 
+// chooseCases is how many completed cases Choose measures on at most. On a generated log of 1M
+// events (about 100,000 cases) measuring on all of them took 28 s natively, on an even sample of
+// 20,000 1.9 s; the sample chose multiset states over the last 3 activities, whose error on all
+// cases is 0.03% above that of the best (sequence over the last 3), chosen on all.
+const chooseCases = 20_000
+
 // Choose measures every abstraction over the whole prefix and the last 1, 2 and 3 activities by
-// 3-fold cross-validation over the completed cases, and returns the one with the smallest mean
-// absolute error of the remaining time, with the table of all. The attribute refinement of opt is
-// kept. (The choice sees all completed cases, so a temporal hold-out measured afterwards is a
-// little optimistic; k-fold figures are not.)
+// 3-fold cross-validation over the completed cases (an even sample of chooseCases of them when
+// there are more), and returns the one with the smallest mean absolute error of the remaining
+// time, with the table of all. The attribute refinement of opt is kept. (The choice sees the
+// completed cases, so a temporal hold-out measured afterwards is a little optimistic; k-fold
+// figures are not.)
 func Choose(l *eventlog.Log, part Partition, opt Options) (Config, []Choice, error) {
+	if n := len(part.Completed); n > chooseCases {
+		sample := make([]int, 0, chooseCases)
+		for i := range chooseCases {
+			sample = append(sample, part.Completed[i*n/chooseCases])
+		}
+		part.Completed = sample
+	}
 	var table []Choice
 	best := -1
 	for _, a := range []Abstraction{Sequence, Multiset, Set} {

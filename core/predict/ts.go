@@ -49,28 +49,31 @@ type Config struct {
 
 // key is the state of a prefix (activities a[:n] of a case whose attribute value is attr).
 func (c Config) key(acts []int32, attr string, horizon int) string {
+	var buf [256]byte
+	return string(c.appendKey(buf[:0], acts, attr, horizon))
+}
+
+// appendKey appends the key of a prefix to dst. Lookups index their map with string(dst), which
+// does not allocate, so only a new state's key becomes a string.
+func (c Config) appendKey(dst []byte, acts []int32, attr string, horizon int) []byte {
 	if horizon > 0 && len(acts) > horizon {
 		acts = acts[len(acts)-horizon:]
 	}
-	var b []byte
-	b = append(b, attr...)
-	b = append(b, 0)
-	switch c.Abstraction {
-	case Sequence:
-		for _, a := range acts {
-			b = binary.LittleEndian.AppendUint32(b, uint32(a))
-		}
-	default:
-		s := slices.Clone(acts)
+	dst = append(dst, attr...)
+	dst = append(dst, 0)
+	if c.Abstraction != Sequence {
+		var sorted [64]int32
+		s := append(sorted[:0], acts...)
 		slices.Sort(s)
 		if c.Abstraction == Set {
 			s = slices.Compact(s)
 		}
-		for _, a := range s {
-			b = binary.LittleEndian.AppendUint32(b, uint32(a))
-		}
+		acts = s
 	}
-	return string(b)
+	for _, a := range acts {
+		dst = binary.LittleEndian.AppendUint32(dst, uint32(a))
+	}
+	return dst
 }
 
 // State holds the annotations of one state.
@@ -87,6 +90,7 @@ type State struct {
 	// summaries computed once by Build, so a prediction costs a lookup
 	median, meanRemaining, meanSojourn float64
 	spread                             float64 // interquartile range of Remaining
+	likeliest                          int32   // the most frequent next activity, -1 for the end
 }
 
 // System is an annotated transition system. Besides the states of the configured horizon it
@@ -147,6 +151,7 @@ func Build(l *eventlog.Log, cases []int, cfg Config, outcome Outcome) (*System, 
 		s.levels = append(s.levels, level{h, map[string]*State{}})
 	}
 	s.levels = append(s.levels, level{-1, map[string]*State{}}) // the empty prefix: any case
+	var buf []byte
 	for _, c := range cases {
 		acts, times := caseTimes(l, c)
 		if len(acts) == 0 {
@@ -158,16 +163,15 @@ func Build(l *eventlog.Log, cases []int, cfg Config, outcome Outcome) (*System, 
 		for i := 1; i <= len(acts); i++ {
 			t := times[i-1]
 			for _, lv := range s.levels {
-				var k string
 				if lv.horizon < 0 {
-					k = cfg.key(nil, attr, 0)
+					buf = cfg.appendKey(buf[:0], nil, attr, 0)
 				} else {
-					k = cfg.key(acts[:i], attr, lv.horizon)
+					buf = cfg.appendKey(buf[:0], acts[:i], attr, lv.horizon)
 				}
-				st := lv.states[k]
+				st := lv.states[string(buf)]
 				if st == nil {
 					st = &State{Next: map[int32]int{}}
-					lv.states[k] = st
+					lv.states[string(buf)] = st
 				}
 				st.Remaining = append(st.Remaining, float64(end-t)/1e6)
 				st.Elapsed = append(st.Elapsed, float64(t-start)/1e6)
@@ -188,6 +192,14 @@ func Build(l *eventlog.Log, cases []int, cfg Config, outcome Outcome) (*System, 
 			q := summary.QuantilesInPlace(st.Remaining, 0.25, 0.5, 0.75)
 			st.median, st.spread = q[1], q[2]-q[0]
 			st.meanRemaining, st.meanSojourn = mean(st.Remaining), mean(st.Sojourn)
+			// the likeliest next step, the end winning ties and names breaking the others
+			st.likeliest = -1
+			best := st.Ends
+			for a, n := range st.Next {
+				if n > best || (n == best && st.likeliest >= 0 && l.Activities.Name(a) < l.Activities.Name(st.likeliest)) {
+					st.likeliest, best = a, n
+				}
+			}
 		}
 	}
 	return s, nil
@@ -210,31 +222,41 @@ type Prediction struct {
 
 // Predict forecasts the prefix acts of a case with attribute value attr.
 func (s *System) Predict(acts []int32, attr string) Prediction {
+	st, li := s.state(acts, attr)
+	if st == nil {
+		return Prediction{Unknown: true, Next: map[string]float64{}}
+	}
+	p := Prediction{Horizon: s.levels[li].horizon, Fallback: li > 0, Support: len(st.Remaining), Next: map[string]float64{}}
+	p.MedianSeconds, p.MeanSeconds, p.SojournMean, p.Spread = st.median, st.meanRemaining, st.meanSojourn, st.spread
+	n := float64(len(st.Remaining))
+	for a, c := range st.Next {
+		p.Next[s.log.Activities.Name(a)] = float64(c) / n
+	}
+	p.End = float64(st.Ends) / n
+	p.Outcome = float64(st.Outcome) / n
+	return p
+}
+
+// state finds the state that forecasts a prefix and the index of its level: the configured
+// horizon, or the first shorter one that knows the prefix. It is Predict without building the
+// Prediction, for the evaluations, which ask for every prefix of many cases.
+func (s *System) state(acts []int32, attr string) (*State, int) {
+	var arr [256]byte
 	for li, lv := range s.levels {
-		var k string
+		var k []byte
 		switch {
 		case lv.horizon < 0:
-			k = s.Config.key(nil, attr, 0)
+			k = s.Config.appendKey(arr[:0], nil, attr, 0)
 		case lv.horizon > 0 && lv.horizon > len(acts) && li > 0:
 			continue // a shorter horizon than the prefix adds nothing here
 		default:
-			k = s.Config.key(acts, attr, lv.horizon)
+			k = s.Config.appendKey(arr[:0], acts, attr, lv.horizon)
 		}
-		st := lv.states[k]
-		if st == nil || len(st.Remaining) == 0 {
-			continue
+		if st := lv.states[string(k)]; st != nil && len(st.Remaining) > 0 {
+			return st, li
 		}
-		p := Prediction{Horizon: lv.horizon, Fallback: li > 0, Support: len(st.Remaining), Next: map[string]float64{}}
-		p.MedianSeconds, p.MeanSeconds, p.SojournMean, p.Spread = st.median, st.meanRemaining, st.meanSojourn, st.spread
-		n := float64(len(st.Remaining))
-		for a, c := range st.Next {
-			p.Next[s.log.Activities.Name(a)] = float64(c) / n
-		}
-		p.End = float64(st.Ends) / n
-		p.Outcome = float64(st.Outcome) / n
-		return p
 	}
-	return Prediction{Unknown: true, Next: map[string]float64{}}
+	return nil, -1
 }
 
 func mean(xs []float64) float64 {

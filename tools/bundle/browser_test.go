@@ -385,7 +385,7 @@ func TestProgressAndCancel(t *testing.T) {
 // hundreds of paths) against its model, waits for the progress count, and stops the check: the
 // engine takes the stop between two paths, since it yields to the worker's event loop while it
 // reports progress.
-func TestStopConformance(t *testing.T) {
+func TestStopConformance(t *testing.T) { // and the forecast
 	html := builtPage(t)
 	big := generatedCSV(t, synth.Config{Seed: 4, Events: 150_000, Noise: 0.1, Shifts: true}, synth.ByTime)
 	ctx, rl := browser(t)
@@ -398,10 +398,10 @@ func TestStopConformance(t *testing.T) {
 		chromedp.WaitVisible(chromedp.CSS(`#overview[data-ready="true"]`)),
 		chromedp.Click(chromedp.CSS(`#views [data-view="conformance"]`)),
 	))
-	// textUntil polls the status line until ok holds for its text (at most 30 s)
-	textUntil := func(ok func(string) bool) bool {
+	// textUntil polls a status line until ok holds for its text (at most 30 s)
+	textUntil := func(sel string, ok func(string) bool) bool {
 		for i := 0; i < 1500; i++ {
-			text, err := chromedp.Run(ctx, chromedp.Text(chromedp.CSS(`#cf-model`)))
+			text, err := chromedp.Run(ctx, chromedp.Text(chromedp.CSS(sel)))
 			require.NoError(t, err)
 			if ok(text) {
 				return true
@@ -410,11 +410,19 @@ func TestStopConformance(t *testing.T) {
 		}
 		return false
 	}
-	counted := textUntil(func(s string) bool { return strings.Contains(s, " paths.") })
+	counted := textUntil(`#cf-model`, func(s string) bool { return strings.Contains(s, " paths.") })
 	require.True(t, counted, "the check reports how many paths are done")
 	require.NoError(t, chromedp.Do(ctx, chromedp.Click(chromedp.CSS(`#cf-stop`))))
-	stopped := textUntil(func(s string) bool { return strings.HasPrefix(s, "Stopped") })
+	stopped := textUntil(`#cf-model`, func(s string) bool { return strings.HasPrefix(s, "Stopped") })
 	assert.True(t, stopped, "the check stops on request")
+
+	// the forecast, which measures itself on past cases first, reports and stops the same way
+	require.NoError(t, chromedp.Do(ctx, chromedp.Click(chromedp.CSS(`#views [data-view="forecast"]`))))
+	counted = textUntil(`#fc-eval`, func(s string) bool { return strings.Contains(s, "models fitted") })
+	require.True(t, counted, "the forecast reports how many models are fitted")
+	require.NoError(t, chromedp.Do(ctx, chromedp.Click(chromedp.CSS(`#fc-stop`))))
+	stopped = textUntil(`#fc-eval`, func(s string) bool { return strings.HasPrefix(s, "Stopped") })
+	assert.True(t, stopped, "the forecast stops on request")
 	assert.Empty(t, rl.failures)
 }
 
