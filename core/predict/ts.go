@@ -80,13 +80,17 @@ func (c Config) appendKey(dst []byte, acts []int32, attr string, horizon int) []
 type State struct {
 	// Remaining, Elapsed and Sojourn hold one value per prefix, in seconds and in no particular
 	// order: Build reads the quantiles it needs by selection, not by sorting, which made up most
-	// of its time.
-	Remaining []float64
-	Elapsed   []float64
-	Sojourn   []float64 // time to the next activity (absent at the end of a case)
-	Next      map[int32]int
-	Ends      int // prefixes that were whole cases
-	Outcome   int // prefixes whose case met the outcome rule
+	// of its time. The states of the shorter horizons kept for fallbacks (System) hold Remaining
+	// only, with the sojourn's sum: they hold every prefix again and are read only for a
+	// forecast's median, spread and mean sojourn.
+	Remaining  []float64
+	Elapsed    []float64
+	Sojourn    []float64 // time to the next activity (absent at the end of a case)
+	sojournSum float64
+	sojournN   int
+	Next       map[int32]int
+	Ends       int // prefixes that were whole cases
+	Outcome    int // prefixes whose case met the outcome rule
 	// summaries computed once by Build, so a prediction costs a lookup
 	median, meanRemaining, meanSojourn float64
 	spread                             float64 // interquartile range of Remaining
@@ -162,7 +166,7 @@ func Build(l *eventlog.Log, cases []int, cfg Config, outcome Outcome) (*System, 
 		start, end := times[0], times[len(times)-1]
 		for i := 1; i <= len(acts); i++ {
 			t := times[i-1]
-			for _, lv := range s.levels {
+			for li, lv := range s.levels {
 				if lv.horizon < 0 {
 					buf = cfg.appendKey(buf[:0], nil, attr, 0)
 				} else {
@@ -174,9 +178,16 @@ func Build(l *eventlog.Log, cases []int, cfg Config, outcome Outcome) (*System, 
 					lv.states[string(buf)] = st
 				}
 				st.Remaining = append(st.Remaining, float64(end-t)/1e6)
-				st.Elapsed = append(st.Elapsed, float64(t-start)/1e6)
+				if li == 0 {
+					st.Elapsed = append(st.Elapsed, float64(t-start)/1e6)
+				}
 				if i < len(acts) {
-					st.Sojourn = append(st.Sojourn, float64(times[i]-t)/1e6)
+					so := float64(times[i]-t) / 1e6
+					if li == 0 {
+						st.Sojourn = append(st.Sojourn, so)
+					}
+					st.sojournSum += so
+					st.sojournN++
 					st.Next[acts[i]]++
 				} else {
 					st.Ends++
@@ -191,7 +202,10 @@ func Build(l *eventlog.Log, cases []int, cfg Config, outcome Outcome) (*System, 
 		for _, st := range lv.states {
 			q := summary.QuantilesInPlace(st.Remaining, 0.25, 0.5, 0.75)
 			st.median, st.spread = q[1], q[2]-q[0]
-			st.meanRemaining, st.meanSojourn = mean(st.Remaining), mean(st.Sojourn)
+			st.meanRemaining = mean(st.Remaining)
+			if st.sojournN > 0 {
+				st.meanSojourn = st.sojournSum / float64(st.sojournN)
+			}
 			// the likeliest next step, the end winning ties and names breaking the others
 			st.likeliest = -1
 			best := st.Ends
