@@ -12,7 +12,9 @@
 // event logs containing infrequent behaviour", BPM workshops 2013) takes a noise threshold f in
 // [0, 1]: when the full graph has no cut, edges rarer than f times the most frequent outgoing edge
 // of their source are dropped (and likewise start and end activities), and the log is split by
-// removing the fewest events that do not fit; empty traces rarer than f of the log are dropped.
+// removing the fewest events that do not fit; empty traces rarer than f of the log are dropped,
+// and an activity that repeats in fewer than f of the traces of a part that holds it alone is the
+// activity alone, not a loop (so that a few duplicated events do not make every step a loop).
 // IMd (Leemans, Fahland and van der Aalst, "Scalable process discovery with guarantees", BPMDS
 // 2015) works on the directly-follows graph alone and never splits the log, for logs too large
 // to split repeatedly.

@@ -39,8 +39,22 @@ func (m *miner) mine(l Log) *tree.Node {
 		}
 		return tree.New(tree.Xor, tree.Silent(), m.mine(withoutEmpty(l)))
 	}
-	if len(g.Acts) == 1 && len(g.Edges) == 0 {
-		return m.leaf(g.Acts[0])
+	if len(g.Acts) == 1 {
+		if len(g.Edges) == 0 {
+			return m.leaf(g.Acts[0])
+		}
+		// IMf's filtered base case: the activity repeats in a few traces only, rarer than f
+		if m.noise > 0 {
+			once := 0
+			for i, t := range l.Traces {
+				if len(t) == 1 {
+					once += l.Counts[i]
+				}
+			}
+			if float64(g.Total-once) < m.noise*float64(g.Total) {
+				return m.leaf(g.Acts[0])
+			}
+		}
 	}
 	if c, ok := findCut(g); ok {
 		return m.apply(l, c)

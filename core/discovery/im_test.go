@@ -90,6 +90,16 @@ func TestNoiseFilter(t *testing.T) {
 	l = traces(append(ts, "")...)
 	assert.Equal(t, "a", InductiveMiner(l, Options{Noise: 0.2}).String())
 	assert.Equal(t, "×(a, τ)", InductiveMiner(l, Options{}).String())
+
+	// the single-activity base case: a repeated in 2 traces of 52 is noise under f = 0.2, in 20
+	// of 70 it is a loop (IMf's filtered base case, as we read the paper)
+	l = traces(append(ts, "a,a", "a,a,a")...)
+	assert.Equal(t, "a", InductiveMiner(l, Options{Noise: 0.2}).String())
+	assert.Equal(t, "↺(a, τ)", InductiveMiner(l, Options{}).String())
+	for i := 0; i < 20; i++ {
+		ts = append(ts, "a,a")
+	}
+	assert.Equal(t, "↺(a, τ)", InductiveMiner(traces(ts...), Options{Noise: 0.2}).String())
 }
 
 // TestFilterRule checks IMf's edge filter on counts worked by hand: with f = 0.2, a's edges 50
