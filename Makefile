@@ -57,6 +57,7 @@ fuzz:
 	$(GO) test -run '^$$' -fuzz '^FuzzReadCSV$$' -fuzztime $(FUZZTIME) ./core/intake/
 	$(GO) test -run '^$$' -fuzz '^FuzzReadXES$$' -fuzztime $(FUZZTIME) ./core/intake/
 	$(GO) test -run '^$$' -fuzz '^FuzzXMLScanner$$' -fuzztime $(FUZZTIME) ./core/intake/
+	$(GO) test -run '^$$' -fuzz '^FuzzEncodingName$$' -fuzztime $(FUZZTIME) ./core/intake/
 	$(GO) test -run '^$$' -fuzz '^FuzzCSVRoundTrip$$' -fuzztime $(FUZZTIME) ./core/export/
 	$(GO) test -run '^$$' -fuzz '^FuzzXESRoundTrip$$' -fuzztime $(FUZZTIME) ./core/export/
 	$(GO) test -run '^$$' -fuzz '^FuzzParse$$' -fuzztime $(FUZZTIME) ./core/timestamp/

@@ -6,7 +6,6 @@ import (
 	"context"
 	"fmt"
 	"io"
-	"regexp"
 	"strings"
 	"unsafe"
 
@@ -158,7 +157,55 @@ func ReadXES(ctx context.Context, r io.Reader, opt XESOptions) (*eventlog.Log, *
 	return l, x.rep, nil
 }
 
-var encodingDecl = regexp.MustCompile(`^\s*<\?xml[^>]*?encoding\s*=\s*["']([A-Za-z0-9._-]+)["']`)
+// encodingName finds the encoding named by the XML declaration at the start of head (XML 1.0
+// section 2.8, EncodingDecl): after optional white space, "<?xml", and before the first '>', the
+// first "encoding" followed by '=' and a quoted name of letters, digits, '.', '_' or '-'. It
+// returns the name's offset in head, or -1. (It replaced a regular expression, whose package was
+// 6% of the engine's code.)
+func encodingName(head []byte) (name []byte, at int) {
+	space := func(c byte) bool { return c == ' ' || c == '\t' || c == '\n' || c == '\r' || c == '\f' }
+	i := 0
+	for i < len(head) && space(head[i]) {
+		i++
+	}
+	if !bytes.HasPrefix(head[i:], []byte("<?xml")) {
+		return nil, -1
+	}
+	decl := head
+	if end := bytes.IndexByte(head[i:], '>'); end >= 0 {
+		decl = head[:i+end]
+	}
+	for from := i + 5; ; {
+		k := bytes.Index(decl[from:], []byte("encoding"))
+		if k < 0 {
+			return nil, -1
+		}
+		j := from + k + len("encoding")
+		from = from + k + 1
+		for j < len(decl) && space(decl[j]) {
+			j++
+		}
+		if j >= len(decl) || decl[j] != '=' {
+			continue
+		}
+		j++
+		for j < len(decl) && space(decl[j]) {
+			j++
+		}
+		if j >= len(decl) || (decl[j] != '"' && decl[j] != '\'') {
+			continue
+		}
+		j++
+		start := j
+		for j < len(decl) && (decl[j]|0x20 >= 'a' && decl[j]|0x20 <= 'z' || decl[j] >= '0' && decl[j] <= '9' || decl[j] == '.' || decl[j] == '_' || decl[j] == '-') {
+			j++
+		}
+		if j == start || j >= len(decl) || (decl[j] != '"' && decl[j] != '\'') {
+			continue
+		}
+		return decl[start:j], start
+	}
+}
 
 // declaredEncoding reads the XML declaration's encoding (XML 1.0 section 4.3.3) and returns the
 // text as UTF-8. UTF-16 arrives here already converted by Open.
@@ -166,18 +213,18 @@ func declaredEncoding(r io.Reader) (io.Reader, error) {
 	br := bufio.NewReaderSize(r, 4096)
 	head, _ := br.Peek(512)
 	head = bytes.TrimPrefix(head, []byte("\xef\xbb\xbf"))
-	m := encodingDecl.FindSubmatch(head)
-	if m == nil {
+	name, at := encodingName(head)
+	if at < 0 {
 		return br, nil
 	}
-	switch strings.ToLower(string(m[1])) {
+	switch strings.ToLower(string(name)) {
 	case "utf-8", "utf8", "us-ascii", "ascii", "utf-16", "utf16", "utf-16le", "utf-16be":
 		return br, nil
 	case "iso-8859-1", "latin1", "latin-1", "iso8859-1", "windows-1252", "cp1252":
 		return newCP1252Reader(br), nil
 	}
-	return nil, &SyntaxError{Line: 1, Column: bytes.Index(head, m[1]) + 1,
-		Err: fmt.Errorf("%w: the file declares the encoding %q; save it as UTF-8", ErrUnsupported, m[1])}
+	return nil, &SyntaxError{Line: 1, Column: at + 1,
+		Err: fmt.Errorf("%w: the file declares the encoding %q; save it as UTF-8", ErrUnsupported, name)}
 }
 
 func (x *xesReader) token() (*xmlToken, error) {

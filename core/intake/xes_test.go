@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"os"
+	"regexp"
 	"strconv"
 	"strings"
 	"testing"
@@ -223,4 +224,39 @@ func TestEmptyListOnTrace(t *testing.T) {
 	n, err := eventlog.ParseNested(text)
 	require.NoError(t, err)
 	assert.Equal(t, "list", n.Type)
+}
+
+// encodingDeclRE is the regular expression encodingName replaced: the reference it must agree
+// with, on the table below and under FuzzEncodingName.
+var encodingDeclRE = regexp.MustCompile(`^\s*<\?xml[^>]*?encoding\s*=\s*["']([A-Za-z0-9._-]+)["']`)
+
+func checkEncodingName(t *testing.T, head string) {
+	t.Helper()
+	name, at := encodingName([]byte(head))
+	m := encodingDeclRE.FindSubmatchIndex([]byte(head))
+	if m == nil {
+		assert.Equal(t, -1, at, "%q", head)
+		return
+	}
+	assert.Equal(t, head[m[2]:m[3]], string(name), "%q", head)
+	assert.Equal(t, m[2], at, "%q", head)
+}
+
+func TestEncodingName(t *testing.T) {
+	for _, head := range []string{
+		`<?xml version="1.0" encoding="UTF-8"?><log/>`,
+		"  \n<?xml version='1.0' encoding = 'windows-1252' ?>",
+		`<?xml version="1.0"?><log encoding="x"/>`, // after the declaration's end: not it
+		`<?xml encoding=UTF-8?>`,                   // unquoted
+		`<?xml encodingx="a" encoding="b"?>`,       // the first "encoding" fails, the second fits
+		`<?xml encoding="a b"?>`, `<?xml version="1.0" encoding="ISO-8859-1"`, `<log/>`, ``, `<?xm`,
+	} {
+		checkEncodingName(t, head)
+	}
+}
+
+func FuzzEncodingName(f *testing.F) {
+	f.Add(`<?xml version="1.0" encoding="UTF-8"?>`)
+	f.Add(`<?xml encodingx="a" encoding='b'>`)
+	f.Fuzz(func(t *testing.T, head string) { checkEncodingName(t, head) })
 }
