@@ -445,11 +445,11 @@
   async function drawModel() {
     const seq = ++modelSeq;
     const method = $('md-method').value;
-    $('md-noise').disabled = method !== 'im';
+    $('md-noise').disabled = method === 'alpha';
     $('md-noise-out').textContent = $('md-noise').value + '%';
     $('md-summary').textContent = 'Finding the model…';
     try {
-      const { done } = await call('model', { method, noise: method === 'im' ? $('md-noise').value / 100 : 0 });
+      const { done } = await call('model', { method, noise: method === 'alpha' ? 0 : $('md-noise').value / 100 });
       const res = await done;
       if (seq !== modelSeq) return;
       model = res;

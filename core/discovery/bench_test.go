@@ -31,7 +31,7 @@ func BenchmarkInductiveMiner(b *testing.B) {
 		})
 		b.Run(fmt.Sprintf("IMd/events=%d", l.NumEvents()), func(b *testing.B) {
 			for b.Loop() {
-				InductiveMinerGraph(dl)
+				InductiveMinerGraph(dl, Options{})
 			}
 		})
 	}

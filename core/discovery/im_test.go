@@ -34,7 +34,7 @@ func TestRunningExample(t *testing.T) {
 		got := InductiveMiner(l, Options{Noise: noise})
 		assert.Equal(t, want.Canonical().String(), got.String(), "noise %v", noise)
 	}
-	assert.Equal(t, want.Canonical().String(), InductiveMinerGraph(l).String(), "IMd")
+	assert.Equal(t, want.Canonical().String(), InductiveMinerGraph(l, Options{}).String(), "IMd")
 }
 
 // TestCuts checks each cut's rule on small hand logs, after the cut definitions of Leemans,
@@ -82,6 +82,9 @@ func TestNoiseFilter(t *testing.T) {
 	l := traces(ts...)
 	assert.Equal(t, "×(→(a, b), →(c, d))", InductiveMiner(l, Options{Noise: 0.2}).String())
 	assert.NotEqual(t, "×(→(a, b), →(c, d))", InductiveMiner(l, Options{}).String())
+	// IMd's infrequent variant filters the graph the same way
+	assert.Equal(t, "×(→(a, b), →(c, d))", InductiveMinerGraph(l, Options{Noise: 0.2}).String())
+	assert.NotEqual(t, "×(→(a, b), →(c, d))", InductiveMinerGraph(l, Options{}).String())
 
 	ts = nil
 	for i := 0; i < 50; i++ {
@@ -100,6 +103,8 @@ func TestNoiseFilter(t *testing.T) {
 		ts = append(ts, "a,a")
 	}
 	assert.Equal(t, "↺(a, τ)", InductiveMiner(traces(ts...), Options{Noise: 0.2}).String())
+	assert.Equal(t, "↺(a, τ)", InductiveMinerGraph(traces(ts...), Options{Noise: 0.2}).String())
+	assert.Equal(t, "a", InductiveMinerGraph(traces(append(ts[:50], "a,a")...), Options{Noise: 0.2}).String())
 }
 
 // TestFilterRule checks IMf's edge filter on counts worked by hand: with f = 0.2, a's edges 50

@@ -11,8 +11,15 @@ import (
 // start the whole or are entered from outside the part (for × and ∧ only those that start the
 // whole), and likewise for end activities; a part of a sequence that some path can skip becomes
 // optional. Its cost does not depend on the number of events once the graph is counted.
-func InductiveMinerGraph(l Log) *tree.Node {
-	m := &miner{names: l.Names}
+//
+// With opt.Noise f > 0 it is the paper's infrequent variant (IMfD): where the graph has no cut,
+// IMf's filter (edges, start and end activities rarer than f of their source's most frequent)
+// is applied and the cut searched again; a lone activity whose self-loop is rarer than f of its
+// occurrences is the activity alone; empty traces rarer than f are dropped. Without it, a large
+// log with a little noise, in which nearly every pair of activities follows each other
+// somewhere, had no cut at all and gave the flower model.
+func InductiveMinerGraph(l Log, opt Options) *tree.Node {
+	m := &miner{names: l.Names, noise: opt.Noise}
 	return m.mineGraph(graphOf(l)).Canonical()
 }
 
@@ -23,16 +30,31 @@ func (m *miner) mineGraph(g *Graph) *tree.Node {
 	if g.Empty > 0 {
 		h := *g
 		h.Empty = 0
+		if m.noise > 0 && float64(g.Empty) < m.noise*float64(g.Total) {
+			return m.mineGraph(&h)
+		}
 		return tree.New(tree.Xor, tree.Silent(), m.mineGraph(&h))
 	}
 	if len(g.Acts) == 1 {
 		a := g.Acts[0]
-		if g.has(a, a) {
-			return tree.New(tree.Loop, m.leaf(a), tree.Silent())
+		if n := g.Edges[[2]int32{a, a}]; n > 0 {
+			// occurrences of a: the edges into it plus the times it starts a trace
+			occ := g.Start[a]
+			for e, k := range g.Edges {
+				if e[1] == a {
+					occ += k
+				}
+			}
+			if m.noise == 0 || float64(n) >= m.noise*float64(occ) {
+				return tree.New(tree.Loop, m.leaf(a), tree.Silent())
+			}
 		}
 		return m.leaf(a)
 	}
 	c, ok := findCut(g)
+	if !ok && m.noise > 0 {
+		c, ok = findCut(g.filtered(m.noise))
+	}
 	if !ok {
 		return m.fallThroughGraph(g)
 	}

@@ -63,7 +63,7 @@ func TestRediscoverability(t *testing.T) {
 		for name, got := range map[string]*tree.Node{
 			"IM":  InductiveMiner(l, Options{}),
 			"IMf": InductiveMiner(l, Options{Noise: 0.2}),
-			"IMd": InductiveMinerGraph(l),
+			"IMd": InductiveMinerGraph(l, Options{}),
 		} {
 			if g := got.Language(2); strings.Join(g, "|") != strings.Join(lang, "|") {
 				t.Errorf("%s: tree %s came back as %s", name, truth, got)

@@ -483,7 +483,7 @@ func (e *Engine) model(raw json.RawMessage) (*Model, error) {
 		t = discovery.InductiveMiner(dl, discovery.Options{Noise: o.Noise})
 		m.Method = "im"
 	case "imd":
-		t = discovery.InductiveMinerGraph(dl)
+		t = discovery.InductiveMinerGraph(dl, discovery.Options{Noise: o.Noise})
 	case "alpha":
 		a, err := discovery.Alpha(dl)
 		if err != nil {

@@ -54,7 +54,7 @@ func discoverCommand(ctx context.Context, args []string, stdout io.Writer) error
 	var rf readFlags
 	rf.register(fs)
 	method := fs.String("method", "im", "im (Inductive Miner), imd (on the directly-follows graph) or alpha")
-	noise := fs.Float64("noise", 0, "IMf noise threshold, 0 to 1 (0: the base algorithm)")
+	noise := fs.Float64("noise", 0, "noise threshold of IMf and IMfD (im, imd), 0 to 1 (0: the base algorithms)")
 	out := fs.String("out", "", "write the Petri net as PNML here")
 	dot := fs.String("dot", "", "write the Petri net as Graphviz DOT here")
 	bpmnOut := fs.String("bpmn", "", "write the process tree as BPMN 2.0 here (im and imd)")
@@ -87,7 +87,7 @@ func discoverCommand(ctx context.Context, args []string, stdout io.Writer) error
 		t = discovery.InductiveMiner(dl, discovery.Options{Noise: *noise})
 		res.Tree, net = t.String(), petri.FromTree(t)
 	case "imd":
-		t = discovery.InductiveMinerGraph(dl)
+		t = discovery.InductiveMinerGraph(dl, discovery.Options{Noise: *noise})
 		res.Tree, net = t.String(), petri.FromTree(t)
 	case "alpha":
 		a, err := discovery.Alpha(dl)
