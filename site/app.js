@@ -733,7 +733,7 @@
       (ev.mae_ratio_range && ev.mae_ratio_range[1] > 0 ? ' (likely ' + ev.mae_ratio_range[0].toFixed(2) + ' to ' + ev.mae_ratio_range[1].toFixed(2) + ' on other past cases).' : '.') : '';
     const how = el('p', { class: 'muted small', text: chosen + refined + tested +
       ', tested on ' + fmtInt(ev.test_prefixes) + ' moments of ' + fmtInt(ev.test_cases) + ' cases that were open then.' + ratio +
-      (f.kfold ? ' Across 5 folds of all finished cases: error ' + f.kfold.mae_days.toFixed(2) + ' d, ' + pct(f.kfold.coverage) + ' inside the range.' : '') +
+      (f.kfold ? ' Across 5 folds of ' + (f.kfold_cases < f.completed_cases ? 'an even sample of ' + fmtInt(f.kfold_cases) + ' finished cases' : 'all finished cases') + ': error ' + f.kfold.mae_days.toFixed(2) + ' d, ' + pct(f.kfold.coverage) + ' inside the range.' : '') +
       ' A case is finished when it reaches ' + f.end_activities.join(', ') + '; one silent for more than ' + f.inactive_after_days.toFixed(0) + ' days counts as abandoned (' + fmtInt(f.abandoned_cases) + ').' });
     $('fc-eval').replaceChildren(figs, how, byLen);
     const t = $('fc-list');

@@ -201,6 +201,7 @@ func TestForecast(t *testing.T) {
 	assert.NotEmpty(t, f.Running)
 	assert.Positive(t, f.Evaluation.TestPrefixes)
 	assert.NotNil(t, f.KFold)
+	assert.Equal(t, f.Completed, f.KFoldCases, "a small log is checked on all its finished cases")
 	var progress []ForecastProgress
 	r = e.Handle(context.Background(), req("forecast", 4, `{"abstraction":"auto","end_activities":["Hand over bike","Return bike"],"export_date":"2025-04-30","kfold":5}`), nil,
 		func(p Response) { progress = append(progress, p.Payload.(ForecastProgress)) })

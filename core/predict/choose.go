@@ -21,13 +21,7 @@ const chooseCases = 20_000
 // completed cases, so a temporal hold-out measured afterwards is a little optimistic; k-fold
 // figures are not.)
 func Choose(l *eventlog.Log, part Partition, opt Options) (Config, []Choice, error) {
-	if n := len(part.Completed); n > chooseCases {
-		sample := make([]int, 0, chooseCases)
-		for i := range chooseCases {
-			sample = append(sample, part.Completed[i*n/chooseCases])
-		}
-		part.Completed = sample
-	}
+	part = part.Sample(chooseCases)
 	var table []Choice
 	best := -1
 	for _, a := range []Abstraction{Sequence, Multiset, Set} {
@@ -45,4 +39,20 @@ func Choose(l *eventlog.Log, part Partition, opt Options) (Config, []Choice, err
 		}
 	}
 	return table[best].Config, table, nil
+}
+
+// Sample returns the partition with its completed cases thinned to an even sample of at most n
+// (every k-th in log order, so the sample spans the whole period); the running and abandoned
+// cases are kept.
+func (p Partition) Sample(n int) Partition {
+	m := len(p.Completed)
+	if m <= n {
+		return p
+	}
+	sample := make([]int, 0, n)
+	for i := range n {
+		sample = append(sample, p.Completed[i*m/n])
+	}
+	p.Completed = sample
+	return p
 }

@@ -176,3 +176,14 @@ func TestChoose(t *testing.T) {
 		}
 	}
 }
+
+// TestSample: an even sample keeps every k-th finished case in log order, spanning the period,
+// and leaves the running and abandoned cases alone.
+func TestSample(t *testing.T) {
+	p := Partition{Completed: []int{0, 1, 2, 3, 4, 5, 6, 7, 8, 9}, Running: []int{10}, Abandoned: []int{11}}
+	s := p.Sample(4)
+	assert.Equal(t, []int{0, 2, 5, 7}, s.Completed)
+	assert.Equal(t, p.Running, s.Running)
+	assert.Equal(t, p.Abandoned, s.Abandoned)
+	assert.Equal(t, p.Completed, p.Sample(10).Completed, "no more than asked: kept whole")
+}
