@@ -5,10 +5,10 @@ import (
 	"sync"
 )
 
-// candidateFormats compiles Candidates once, on first use; the formats are immutable.
+// candidateFormats compiles candidates once, on first use; the formats are immutable.
 var candidateFormats = sync.OnceValue(func() []*Format {
 	var fs []*Format
-	for _, c := range Candidates {
+	for _, c := range candidates {
 		f, err := ParseFormat(c)
 		if err != nil {
 			panic("timestamp: bad built-in layout " + c)
@@ -18,9 +18,10 @@ var candidateFormats = sync.OnceValue(func() []*Format {
 	return fs
 })
 
-// Candidates are the layouts Infer tries, most specific first. Day-first and month-first
+// candidates are the layouts Infer tries, most specific first (unexported, so that nothing can
+// change them after candidateFormats compiled them). Day-first and month-first
 // layouts come in pairs that differ only in the order of D and M.
-var Candidates = []string{
+var candidates = []string{
 	"YYYY-MM-DDThh:mm[:ss[.f]][Z]",
 	"YYYY-MM-DD hh:mm[:ss[.f]][Z]",
 	"YYYY-MM-DD",
@@ -110,12 +111,12 @@ func InferShare(sample []string, minShare float64) Inference {
 		return best
 	}
 	best.Format, best.Parsed = fs[bestK], counts[bestK]
-	if twin := swapDM(Candidates[bestK]); twin != "" {
-		for k, c := range Candidates {
+	if twin := swapDM(candidates[bestK]); twin != "" {
+		for k, c := range candidates {
 			if c == twin && counts[k] == counts[bestK] {
 				best.Ambiguous = true
 				best.Alternative = fs[k]
-				if strings.HasPrefix(Candidates[bestK], "M") {
+				if strings.HasPrefix(candidates[bestK], "M") {
 					best.Format, best.Alternative = fs[k], fs[bestK]
 				}
 			}
