@@ -105,7 +105,9 @@ func (d *Dict) intern(b []byte, h uint64) int32 {
 			id := int32(len(d.names))
 			d.names = append(d.names, d.store(b))
 			*s = slot{meta: want | uint64(id+1), k0: k0, k1: k1}
-			if 2*len(d.names) > len(d.slots) {
+			// grow at a load of 0.7: slots are 24 bytes, and a table of unique values (an
+			// event id column) should not take three times its entries in them
+			if 10*len(d.names) > 7*len(d.slots) {
 				d.grow()
 			}
 			return id
