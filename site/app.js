@@ -447,9 +447,10 @@
     const method = $('md-method').value;
     $('md-noise').disabled = method === 'alpha';
     $('md-noise-out').textContent = $('md-noise').value + '%';
+    $('md-variants-out').textContent = $('md-variants').value + '%';
     $('md-summary').textContent = 'Finding the model…';
     try {
-      const { done } = await call('model', { method, noise: method === 'alpha' ? 0 : $('md-noise').value / 100 });
+      const { done } = await call('model', { method, noise: method === 'alpha' ? 0 : $('md-noise').value / 100, variants: $('md-variants').value / 100 });
       const res = await done;
       if (seq !== modelSeq) return;
       model = res;
@@ -471,6 +472,8 @@
   $('md-method').addEventListener('change', drawModel);
   $('md-noise').addEventListener('change', drawModel);
   $('md-noise').addEventListener('input', () => { $('md-noise-out').textContent = $('md-noise').value + '%'; });
+  $('md-variants').addEventListener('change', drawModel);
+  $('md-variants').addEventListener('input', () => { $('md-variants-out').textContent = $('md-variants').value + '%'; });
   $('md-pnml').addEventListener('click', () => { if (model) download('model.pnml', 'application/xml', model.pnml); });
   $('md-dot').addEventListener('click', () => { if (model) download('model.dot', 'text/vnd.graphviz', model.dot); });
   $('md-svg').addEventListener('click', () => { if (model) download('model.svg', 'image/svg+xml', model.svg); });
@@ -492,7 +495,7 @@
     $('cf-model').textContent = 'Setting every path against the model…';
     const progress = (p) => { $('cf-model').textContent = 'Setting every path against the model… ' + fmtInt(p.variants_done) + ' of ' + fmtInt(p.variants) + ' paths.'; };
     try {
-      const { id, done } = await call('conformance', { source, noise: $('md-noise').value / 100, costs: readCosts() }, source === 'pnml' ? pnmlFile : null, progress);
+      const { id, done } = await call('conformance', { source, noise: $('md-noise').value / 100, variants: $('md-variants').value / 100, costs: readCosts() }, source === 'pnml' ? pnmlFile : null, progress);
       confRunning = id;
       $('cf-stop').hidden = false;
       conf = await done;

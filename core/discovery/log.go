@@ -24,6 +24,36 @@ func FromEventLog(l *eventlog.Log) Log {
 	return out
 }
 
+// Frequent keeps the most frequent distinct traces until they cover share of all traces (0 < share
+// ≤ 1; 1 or more keeps everything), ties going to the trace seen first. Leaving out the rarest
+// variants before discovery is common practice for logs whose noise scatters over many
+// variants: on 100,000 generated events with 5% noise (random extra, missing and swapped events),
+// IMf found the generator's process tree from the variants covering 90% of the cases and a
+// model with most steps in parallel from all of them (TestFrequentRediscovers).
+func (l Log) Frequent(share float64) Log {
+	if share >= 1 || share <= 0 {
+		return l
+	}
+	total := 0
+	order := make([]int, len(l.Traces))
+	for i := range order {
+		order[i] = i
+		total += l.Counts[i]
+	}
+	slices.SortStableFunc(order, func(a, b int) int { return l.Counts[b] - l.Counts[a] })
+	out := Log{Names: l.Names}
+	kept := 0
+	for _, i := range order {
+		if float64(kept) >= share*float64(total) {
+			break
+		}
+		out.Traces = append(out.Traces, l.Traces[i])
+		out.Counts = append(out.Counts, l.Counts[i])
+		kept += l.Counts[i]
+	}
+	return out
+}
+
 // FromStrings builds a Log from traces of names (each trace once per occurrence), for tests and
 // small examples.
 func FromStrings(traces ...[]string) Log {

@@ -23,6 +23,7 @@ import (
 type ConformanceOptions struct {
 	Source    string  `json:"source"` // "discovered" (default) or "pnml"
 	Noise     float64 `json:"noise"`
+	Variants  float64 `json:"variants"` // discover from the most frequent paths covering this share of cases; 0 or 1: all
 	MaxStates int     `json:"max_states"` // per variant; 0: 50,000
 	// MaxSeconds bounds the time per variant; 0: 5 s.
 	MaxSeconds float64 `json:"max_seconds"`
@@ -79,9 +80,15 @@ func (e *Engine) conformance(ctx context.Context, req Request, f *File, emit fun
 	var net *petri.Net
 	switch o.Source {
 	case "", "discovered":
-		t := discovery.InductiveMiner(discovery.FromEventLog(l), discovery.Options{Noise: o.Noise})
+		if o.Variants < 0 || o.Variants > 1 {
+			return nil, fmt.Errorf("the share of paths to discover from is between 0 and 1, not %v", o.Variants)
+		}
+		t := discovery.InductiveMiner(discovery.FromEventLog(l).Frequent(o.Variants), discovery.Options{Noise: o.Noise})
 		net = petri.FromTree(t)
 		res.Model = fmt.Sprintf("discovered by the Inductive Miner (leaving out %.0f%%)", o.Noise*100)
+		if o.Variants > 0 && o.Variants < 1 {
+			res.Model = fmt.Sprintf("discovered by the Inductive Miner from the most common paths, covering %.0f%% of cases (leaving out %.0f%% of what remains)", o.Variants*100, o.Noise*100)
+		}
 	case "pnml":
 		if f == nil {
 			return nil, errors.New("choose a PNML file for the reference model")

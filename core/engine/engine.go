@@ -443,6 +443,9 @@ func (e *Engine) flowMap(raw json.RawMessage) (*FlowMap, error) {
 type ModelOptions struct {
 	Method string  `json:"method"` // "im" (default), "imd" or "alpha"
 	Noise  float64 `json:"noise"`
+	// Variants discovers from the most frequent paths that cover this share of the cases
+	// (discovery.Log.Frequent); 0 or 1 takes them all.
+	Variants float64 `json:"variants"`
 }
 
 // Model is a discovered model: the Petri net drawn, its exports, and what is known of it.
@@ -470,11 +473,14 @@ func (e *Engine) model(raw json.RawMessage) (*Model, error) {
 	if o.Noise < 0 || o.Noise > 1 {
 		return nil, fmt.Errorf("the noise threshold is a share between 0 and 1, not %v", o.Noise)
 	}
+	if o.Variants < 0 || o.Variants > 1 {
+		return nil, fmt.Errorf("the share of paths to discover from is between 0 and 1, not %v", o.Variants)
+	}
 	l, err := e.loaded()
 	if err != nil {
 		return nil, err
 	}
-	dl := discovery.FromEventLog(l)
+	dl := discovery.FromEventLog(l).Frequent(o.Variants)
 	m := &Model{Method: o.Method}
 	var net *petri.Net
 	var t *tree.Node

@@ -188,6 +188,13 @@ func TestFlowMapAndModel(t *testing.T) {
 	assert.Contains(t, m.Tree, "Register claim")
 	r = e.Handle(context.Background(), req("model", 4, `{"method":"nope"}`), nil, nil)
 	assert.Equal(t, "error", r.Kind)
+	// from the most common paths only: a sound model, with no more steps than from all paths
+	r = e.Handle(context.Background(), req("model", 5, `{"method":"im","noise":0.2,"variants":0.8}`), nil, nil)
+	require.Equal(t, "result", r.Kind, "%v", r.Payload)
+	assert.True(t, r.Payload.(*Model).Sound)
+	assert.LessOrEqual(t, r.Payload.(*Model).Transitions, m.Transitions)
+	r = e.Handle(context.Background(), req("model", 6, `{"variants":1.5}`), nil, nil)
+	assert.Equal(t, "error", r.Kind)
 }
 
 func TestForecast(t *testing.T) {

@@ -41,6 +41,7 @@ func dfgCommand(ctx context.Context, args []string, stdout io.Writer) error {
 type discoverOutput struct {
 	Method      string  `json:"method"`
 	Noise       float64 `json:"noise,omitempty"`
+	Variants    float64 `json:"variants"` // the share of cases whose paths were used
 	Tree        string  `json:"tree,omitempty"`
 	Places      int     `json:"places"`
 	Transitions int     `json:"transitions"`
@@ -55,6 +56,7 @@ func discoverCommand(ctx context.Context, args []string, stdout io.Writer) error
 	rf.register(fs)
 	method := fs.String("method", "im", "im (Inductive Miner), imd (on the directly-follows graph) or alpha")
 	noise := fs.Float64("noise", 0, "noise threshold of IMf and IMfD (im, imd), 0 to 1 (0: the base algorithms)")
+	variants := fs.Float64("variants", 1, "discover from the most frequent paths that cover this share of the cases, 0 to 1 (1: all)")
 	out := fs.String("out", "", "write the Petri net as PNML here")
 	dot := fs.String("dot", "", "write the Petri net as Graphviz DOT here")
 	bpmnOut := fs.String("bpmn", "", "write the process tree as BPMN 2.0 here (im and imd)")
@@ -67,6 +69,9 @@ func discoverCommand(ctx context.Context, args []string, stdout io.Writer) error
 	if *noise < 0 || *noise > 1 {
 		return &usageError{"--noise is a share between 0 and 1"}
 	}
+	if *variants <= 0 || *variants > 1 {
+		return &usageError{"--variants is a share above 0 and at most 1"}
+	}
 	for _, o := range []string{*out, *dot, *bpmnOut} {
 		if o != "" {
 			if err := checkOutput(path, o, *force); err != nil {
@@ -78,8 +83,8 @@ func discoverCommand(ctx context.Context, args []string, stdout io.Writer) error
 	if err != nil {
 		return err
 	}
-	dl := discovery.FromEventLog(l)
-	res := discoverOutput{Method: strings.ToLower(*method), Noise: *noise, Out: *out}
+	dl := discovery.FromEventLog(l).Frequent(*variants)
+	res := discoverOutput{Method: strings.ToLower(*method), Noise: *noise, Variants: *variants, Out: *out}
 	var net *petri.Net
 	var t *tree.Node
 	switch res.Method {

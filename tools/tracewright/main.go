@@ -6,7 +6,7 @@
 //	tracewright columns LOG [--json] [reading flags]   the proposed column roles of a CSV file
 //	tracewright convert LOG --to xes|csv [--out FILE] [--force] [reading flags]
 //	tracewright dfg LOG [--activities SHARE] [--edges SHARE]   the directly-follows graph as JSON
-//	tracewright discover LOG [--method im|imd|alpha] [--noise F] [--out NET.pnml] [--dot NET.dot]
+//	tracewright discover LOG [--method im|imd|alpha] [--noise F] [--variants F] [--out NET.pnml] [--dot NET.dot]
 //	tracewright predict LOG [--json] [--abstraction A] [--horizon K] [--outcome RULE] [--kfold K]
 //	tracewright version
 //
@@ -66,7 +66,7 @@ const usage = `usage:
   tracewright columns LOG [--json] [reading flags]
   tracewright convert LOG --to xes|csv [--out FILE] [--force] [reading flags]
   tracewright dfg LOG [--activities SHARE] [--edges SHARE] [reading flags]
-  tracewright discover LOG [--method im|imd|alpha] [--noise F] [--out NET.pnml] [--dot NET.dot] [--bpmn MODEL.bpmn] [--json]
+  tracewright discover LOG [--method im|imd|alpha] [--noise F] [--variants F] [--out NET.pnml] [--dot NET.dot] [--bpmn MODEL.bpmn] [--json]
   tracewright predict LOG [--json] [--abstraction sequence|multiset|set] [--horizon K] [--outcome RULE] [--end A,B] [--kfold K]
   tracewright conform LOG --model NET.pnml [--json] [--max-states N] [--max-seconds S] [--log-cost A=N] [--model-cost A=N] [--include-running] [--cases fitting|deviating --out FILE.csv]
   tracewright version
