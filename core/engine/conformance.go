@@ -23,7 +23,7 @@ import (
 type ConformanceOptions struct {
 	Source    string  `json:"source"` // "discovered" (default) or "pnml"
 	Noise     float64 `json:"noise"`
-	Variants  float64 `json:"variants"` // discover from the most frequent paths covering this share of cases; 0 or 1: all
+	Variants  float64 `json:"variants"`   // discover from the most frequent paths covering this share of cases; 0 or 1: all
 	MaxStates int     `json:"max_states"` // per variant; 0: 50,000
 	// MaxSeconds bounds the time per variant; 0: 5 s.
 	MaxSeconds float64 `json:"max_seconds"`
