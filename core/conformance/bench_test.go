@@ -1,14 +1,12 @@
 package conformance
 
 import (
-	"bytes"
-	"context"
 	"errors"
 	"fmt"
 	"testing"
 
 	"tracewright/core/discovery"
-	"tracewright/core/intake"
+	"tracewright/core/internal/logtest"
 	"tracewright/core/petri"
 	"tracewright/core/synth"
 )
@@ -61,19 +59,12 @@ func BenchmarkAlignVariants(b *testing.B) {
 
 // BenchmarkWorkshop is the conformance view's work on the invented workshop log (200k events,
 // 10% of cases with noise) against the model the Inductive Miner finds leaving out 20%: token
-// replay and the alignment of every variant with precision. That model puts most activities in
-// self-loops inside parallel blocks (55 transitions, 43 of them silent), the hardest shape for
-// the marking equation.
+// replay and the alignment of every variant with precision. Until IMf's filtered single-activity
+// base case (package discovery), that model put most activities in self-loops inside parallel
+// blocks (55 transitions, 43 of them silent), the hardest shape for the marking equation: 540-950
+// variants/s. Now it has 25 transitions and aligns about 32,000 variants/s.
 func BenchmarkWorkshop(b *testing.B) {
-	lg := synth.Generate(synth.Config{Seed: 3, Events: 200000, Noise: 0.1, Shifts: true})
-	var buf bytes.Buffer
-	if err := lg.WriteCSV(&buf, synth.ByTime); err != nil {
-		b.Fatal(err)
-	}
-	l, _, err := intake.Read(context.Background(), &buf, intake.Options{})
-	if err != nil {
-		b.Fatal(err)
-	}
+	l := logtest.Generated(b, synth.Config{Seed: 3, Events: 200000, Noise: 0.1, Shifts: true})
 	n := petri.FromTree(discovery.InductiveMiner(discovery.FromEventLog(l), discovery.Options{Noise: 0.2}))
 	b.Run("replay", func(b *testing.B) {
 		for b.Loop() {
@@ -83,6 +74,7 @@ func BenchmarkWorkshop(b *testing.B) {
 	})
 	b.Run("align", func(b *testing.B) {
 		var res *Result
+		var err error
 		for b.Loop() {
 			if res, err = AlignLog(l, n, Costs{}, Bound{States: 100000}); err != nil {
 				b.Fatal(err)

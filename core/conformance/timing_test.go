@@ -1,8 +1,6 @@
 package conformance
 
 import (
-	"context"
-	"strings"
 	"testing"
 
 	"github.com/stretchr/testify/assert"
@@ -10,12 +8,11 @@ import (
 
 	"tracewright/core/eventlog"
 	"tracewright/core/intake"
+	"tracewright/core/internal/logtest"
 )
 
 func readCSV(t *testing.T, text string) *eventlog.Log {
-	l, _, err := intake.Read(context.Background(), strings.NewReader(text), intake.Options{})
-	require.NoError(t, err)
-	return l
+	return logtest.FromCSV(t, text, intake.Options{})
 }
 
 // TestTimeOnModelByHand: on a → ∧(b, c) → d, one case with starts and completions (minutes):

@@ -1,25 +1,18 @@
 package dfg
 
 import (
-	"bytes"
-	"context"
 	"math/rand/v2"
-	"strings"
 	"testing"
 
 	"github.com/stretchr/testify/assert"
-	"github.com/stretchr/testify/require"
 
 	"tracewright/core/eventlog"
 	"tracewright/core/intake"
+	"tracewright/core/internal/logtest"
 	"tracewright/core/synth"
 )
 
-func read(t *testing.T, csv string) *eventlog.Log {
-	l, _, err := intake.Read(context.Background(), strings.NewReader(csv), intake.Options{})
-	require.NoError(t, err)
-	return l
-}
+func read(t *testing.T, csv string) *eventlog.Log { return logtest.FromCSV(t, csv, intake.Options{}) }
 
 func edgeMap(g *Graph) map[string][2]int {
 	out := map[string][2]int{}
@@ -69,11 +62,7 @@ func TestCountsByHand(t *testing.T) {
 // TestAbstractionKeepsPaths: on generated logs, any pair of shares leaves every shown activity
 // reachable from start and able to reach end (property test).
 func TestAbstractionKeepsPaths(t *testing.T) {
-	lg := synth.Generate(synth.Config{Seed: 9, Events: 20000, Noise: 0.1, StartTimes: true})
-	var buf bytes.Buffer
-	require.NoError(t, lg.WriteCSV(&buf, synth.ByTime))
-	l, _, err := intake.Read(context.Background(), &buf, intake.Options{})
-	require.NoError(t, err)
+	l := logtest.Generated(t, synth.Config{Seed: 9, Events: 20000, Noise: 0.1, StartTimes: true})
 	r := rand.New(rand.NewPCG(1, 2))
 	for i := 0; i < 40; i++ {
 		opt := Options{Activities: 0.3 + 0.7*r.Float64(), Edges: 0.05 + 0.95*r.Float64()}

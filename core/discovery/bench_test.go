@@ -1,12 +1,10 @@
 package discovery
 
 import (
-	"bytes"
-	"context"
 	"fmt"
 	"testing"
 
-	"tracewright/core/intake"
+	"tracewright/core/internal/logtest"
 	"tracewright/core/synth"
 )
 
@@ -14,15 +12,7 @@ import (
 // time is discovery alone, from the log's variants (reading is BenchmarkIntakeCSV's).
 func BenchmarkInductiveMiner(b *testing.B) {
 	for _, n := range []int{10_000, 100_000, 1_000_000} {
-		lg := synth.Generate(synth.Config{Seed: 3, Events: n, Noise: 0.05, Shifts: true})
-		var buf bytes.Buffer
-		if err := lg.WriteCSV(&buf, synth.ByTime); err != nil {
-			b.Fatal(err)
-		}
-		l, _, err := intake.Read(context.Background(), &buf, intake.Options{})
-		if err != nil {
-			b.Fatal(err)
-		}
+		l := logtest.Generated(b, synth.Config{Seed: 3, Events: n, Noise: 0.05, Shifts: true})
 		dl := FromEventLog(l)
 		b.Run(fmt.Sprintf("IMf/events=%d/variants=%d", l.NumEvents(), len(dl.Traces)), func(b *testing.B) {
 			for b.Loop() {

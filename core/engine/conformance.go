@@ -58,10 +58,8 @@ type ConformanceProgress struct {
 
 func (e *Engine) conformance(ctx context.Context, req Request, f *File, emit func(Response)) (*ConformanceResult, error) {
 	var o ConformanceOptions
-	if raw := req.Payload; len(raw) > 0 {
-		if err := json.Unmarshal(raw, &o); err != nil {
-			return nil, fmt.Errorf("conformance options: %w", err)
-		}
+	if err := options(req.Payload, &o, "conformance"); err != nil {
+		return nil, err
 	}
 	if o.MaxStates <= 0 {
 		o.MaxStates = 50000

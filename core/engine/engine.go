@@ -147,6 +147,18 @@ func (e *Engine) Handle(ctx context.Context, req Request, file *File, emit func(
 	return Response{V: APIVersion, ID: req.ID, Kind: "result", Payload: payload}
 }
 
+// options reads a request's payload of options into o; an empty payload leaves o as it is (the
+// defaults). what names the request in the error.
+func options(raw json.RawMessage, o any, what string) error {
+	if len(raw) == 0 {
+		return nil
+	}
+	if err := json.Unmarshal(raw, o); err != nil {
+		return fmt.Errorf("%s options: %w", what, err)
+	}
+	return nil
+}
+
 func errorResponse(id int, err error) Response {
 	p := ErrorPayload{Message: err.Error()}
 	var re *intake.RowError
@@ -192,10 +204,8 @@ func (e *Engine) sniff(raw json.RawMessage, f *File) (*SniffResult, error) {
 		return nil, errors.New("sniff needs a file")
 	}
 	var so SniffOptions
-	if len(raw) > 0 {
-		if err := json.Unmarshal(raw, &so); err != nil {
-			return nil, fmt.Errorf("sniff options: %w", err)
-		}
+	if err := options(raw, &so, "sniff"); err != nil {
+		return nil, err
 	}
 	comma, err := intake.SeparatorOf(so.Separator)
 	if err != nil {
@@ -244,10 +254,8 @@ func (e *Engine) load(ctx context.Context, req Request, f *File, emit func(Respo
 		return nil, errors.New("load needs a file")
 	}
 	var lo LoadOptions
-	if len(req.Payload) > 0 {
-		if err := json.Unmarshal(req.Payload, &lo); err != nil {
-			return nil, fmt.Errorf("load options: %w", err)
-		}
+	if err := options(req.Payload, &lo, "load"); err != nil {
+		return nil, err
 	}
 	opt := intake.Options{Size: f.Size, MaxReported: 20}
 	opt.CSV.Mapping, opt.CSV.TimeFormat = lo.Mapping, lo.TimeFormat
@@ -316,10 +324,8 @@ func warmUp(ctx context.Context, f *File) (map[string]int, error) {
 
 func (e *Engine) overview(raw json.RawMessage) (*overview.Overview, error) {
 	var o overview.Options
-	if len(raw) > 0 {
-		if err := json.Unmarshal(raw, &o); err != nil {
-			return nil, fmt.Errorf("overview options: %w", err)
-		}
+	if err := options(raw, &o, "overview"); err != nil {
+		return nil, err
 	}
 	e.mu.Lock()
 	l := e.log
@@ -409,10 +415,8 @@ type FlowMap struct {
 
 func (e *Engine) flowMap(raw json.RawMessage) (*FlowMap, error) {
 	var o FlowMapOptions
-	if len(raw) > 0 {
-		if err := json.Unmarshal(raw, &o); err != nil {
-			return nil, fmt.Errorf("flow_map options: %w", err)
-		}
+	if err := options(raw, &o, "flow_map"); err != nil {
+		return nil, err
 	}
 	l, err := e.loaded()
 	if err != nil {
@@ -465,10 +469,8 @@ type Model struct {
 
 func (e *Engine) model(raw json.RawMessage) (*Model, error) {
 	var o ModelOptions
-	if len(raw) > 0 {
-		if err := json.Unmarshal(raw, &o); err != nil {
-			return nil, fmt.Errorf("model options: %w", err)
-		}
+	if err := options(raw, &o, "model"); err != nil {
+		return nil, err
 	}
 	if o.Noise < 0 || o.Noise > 1 {
 		return nil, fmt.Errorf("the noise threshold is a share between 0 and 1, not %v", o.Noise)
@@ -643,10 +645,8 @@ type ForecastProgress struct {
 func (e *Engine) forecast(ctx context.Context, req Request, emit func(Response)) (*ForecastResult, error) {
 	raw := req.Payload
 	var o ForecastOptions
-	if len(raw) > 0 {
-		if err := json.Unmarshal(raw, &o); err != nil {
-			return nil, fmt.Errorf("forecast options: %w", err)
-		}
+	if err := options(raw, &o, "forecast"); err != nil {
+		return nil, err
 	}
 	l, err := e.loaded()
 	if err != nil {

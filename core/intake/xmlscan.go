@@ -470,12 +470,8 @@ func (t *xmlToken) attrBytes(name string) ([]byte, bool) {
 }
 
 func (t *xmlToken) attr(name string) (string, bool) {
-	for _, a := range t.attrs {
-		if string(a.name) == name {
-			return string(a.value), true
-		}
-	}
-	return "", false
+	v, ok := t.attrBytes(name)
+	return string(v), ok
 }
 
 // local drops a namespace prefix as encoding/xml does: at the first colon, and only when both

@@ -164,16 +164,23 @@ func (m *Model) quick(acts []int32, attr string) quickForecast {
 	if st == nil {
 		return quickForecast{next: -1}
 	}
-	r := m.Radius * (st.spread + spreadFloor)
-	return quickForecast{median: st.median, low: math.Max(0, st.median-r), high: st.median + r,
+	low, high := m.interval(st.median, st.spread)
+	return quickForecast{median: st.median, low: low, high: high,
 		outcome: float64(st.Outcome) / float64(len(st.Remaining)), next: st.likeliest}
+}
+
+// interval is the calibrated interval around a state's median: median ± Radius·(spread +
+// spreadFloor), clipped at 0.
+func (m *Model) interval(median, spread float64) (low, high float64) {
+	r := m.Radius * (spread + spreadFloor)
+	return math.Max(0, median-r), median + r
 }
 
 // Forecast predicts a prefix.
 func (m *Model) Forecast(acts []int32, attr string) Forecast {
 	p := m.System.Predict(acts, attr)
-	r := m.Radius * (p.Spread + spreadFloor)
-	return Forecast{Prediction: p, LowSeconds: math.Max(0, p.MedianSeconds-r), HighSeconds: p.MedianSeconds + r}
+	low, high := m.interval(p.MedianSeconds, p.Spread)
+	return Forecast{Prediction: p, LowSeconds: low, HighSeconds: high}
 }
 
 // Partition says which cases are complete, which still run, and which were abandoned.

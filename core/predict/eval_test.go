@@ -1,8 +1,6 @@
 package predict
 
 import (
-	"bytes"
-	"context"
 	"math"
 	"math/rand/v2"
 	"testing"
@@ -15,19 +13,11 @@ import (
 	"gonum.org/v1/gonum/stat/distuv"
 
 	"tracewright/core/eventlog"
-	"tracewright/core/intake"
+	"tracewright/core/internal/logtest"
 	"tracewright/core/synth"
 )
 
-func generated(t testing.TB, cfg synth.Config) *eventlog.Log {
-	t.Helper()
-	lg := synth.Generate(cfg)
-	var buf bytes.Buffer
-	require.NoError(t, lg.WriteCSV(&buf, synth.ByTime))
-	l, _, err := intake.Read(context.Background(), &buf, intake.Options{})
-	require.NoError(t, err)
-	return l
-}
+func generated(t testing.TB, cfg synth.Config) *eventlog.Log { return logtest.Generated(t, cfg) }
 
 // TestAUCAgainstGonum compares our AUC with gonum/stat's ROC curve integrated by
 // gonum/integrate's trapezoidal rule, and the Brier score with one worked by hand.

@@ -47,13 +47,8 @@ type Config struct {
 	Attribute string `json:"attribute,omitempty"`
 }
 
-// key is the state of a prefix (activities a[:n] of a case whose attribute value is attr).
-func (c Config) key(acts []int32, attr string, horizon int) string {
-	var buf [256]byte
-	return string(c.appendKey(buf[:0], acts, attr, horizon))
-}
-
-// appendKey appends the key of a prefix to dst. Lookups index their map with string(dst), which
+// appendKey appends the key of a prefix (the state of activities acts of a case whose attribute
+// value is attr) to dst. Lookups index their map with string(dst), which
 // does not allocate, so only a new state's key becomes a string.
 func (c Config) appendKey(dst []byte, acts []int32, attr string, horizon int) []byte {
 	if horizon > 0 && len(acts) > horizon {

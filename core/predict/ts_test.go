@@ -1,8 +1,6 @@
 package predict
 
 import (
-	"context"
-	"strings"
 	"testing"
 
 	"github.com/stretchr/testify/assert"
@@ -10,14 +8,18 @@ import (
 
 	"tracewright/core/eventlog"
 	"tracewright/core/intake"
+	"tracewright/core/internal/logtest"
 )
 
 func read(t *testing.T, csv string) *eventlog.Log {
 	t.Helper()
-	l, _, err := intake.Read(context.Background(), strings.NewReader(csv), intake.Options{CSV: intake.CSVOptions{TimeFormat: "epoch-s",
+	return logtest.FromCSV(t, csv, intake.Options{CSV: intake.CSVOptions{TimeFormat: "epoch-s",
 		Mapping: intake.Mapping{Case: "case", Activity: "activity", Time: "time"}}})
-	require.NoError(t, err)
-	return l
+}
+
+// key is the state of a prefix as a string, for comparing states.
+func (c Config) key(acts []int32, attr string, horizon int) string {
+	return string(c.appendKey(nil, acts, attr, horizon))
 }
 
 func all(l *eventlog.Log) []int {
