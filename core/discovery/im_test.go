@@ -96,7 +96,7 @@ func TestNoiseFilter(t *testing.T) {
 	assert.Equal(t, "×(a, τ)", InductiveMiner(l, Options{}).String())
 
 	// the single-activity base case: a repeated in 2 traces of 52 is noise under f = 0.2, in 20
-	// of 70 it is a loop (IMf's filtered base case, as we read the paper)
+	// of 70 it is a loop (IMf's filtered base case, from memory of the IMf paper)
 	l = traces(append(ts, "a,a", "a,a,a")...)
 	assert.Equal(t, "a", InductiveMiner(l, Options{Noise: 0.2}).String())
 	assert.Equal(t, "↺(a, τ)", InductiveMiner(l, Options{}).String())
