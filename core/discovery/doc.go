@@ -17,8 +17,8 @@
 // activity alone, not a loop (so that a few duplicated events do not make every step a loop).
 // IMd (Leemans, Fahland and van der Aalst, "Scalable process discovery with guarantees", BPMDS
 // 2015) works on the directly-follows graph alone and never splits the log, for logs too large
-// to split repeatedly; with f > 0 it is that paper's infrequent variant IMfD (from memory), filtering the graph
-// as IMf does.
+// to split repeatedly; with f > 0 it is that paper's infrequent variant IMfD (from memory),
+// filtering the graph as IMf does.
 //
 // Deviations, each from the published algorithm's text as we read it: the sequence cut merges
 // mutually unreachable parts and then checks that the parts form a chain; the loop cut puts a

@@ -12,9 +12,9 @@ import (
 // whole), and likewise for end activities; a part of a sequence that some path can skip becomes
 // optional. Its cost does not depend on the number of events once the graph is counted.
 //
-// With opt.Noise f > 0 it is the paper's infrequent variant (IMfD, from memory): where the graph has no cut,
-// IMf's filter (edges, start and end activities rarer than f of their source's most frequent)
-// is applied and the cut searched again; a lone activity whose self-loop is rarer than f of its
+// With opt.Noise f > 0 it is the paper's infrequent variant (IMfD, from memory): where the
+// graph has no cut, IMf's filter (edges, start and end activities rarer than f of their source's
+// most frequent) is applied and the cut searched again; a lone activity whose self-loop is rarer than f of its
 // occurrences is the activity alone; empty traces rarer than f are dropped. Without it, a large
 // log with a little noise, in which nearly every pair of activities follows each other
 // somewhere, had no cut at all and gave the flower model.
