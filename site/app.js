@@ -667,7 +667,7 @@
   }
   function renderAttrs(f) {
     const sel = $('fc-attr');
-    if (sel.options.length > 1) return;
+    if (sel.options.length > 2) return;
     for (const a of f.case_attributes) sel.append(el('option', { value: a, text: 'cases by ' + a }));
   }
   // showCase fills the detail of one open case: the forecast with its basis and past error, the
@@ -726,8 +726,19 @@
     const byLen = el('details', {}, el('summary', { text: 'Error by number of steps so far' }),
       el('div', { class: 'table-wrap' }, el('table', {}, el('thead', {}, el('tr', {}, el('th', { class: 'num', text: 'Steps' }), el('th', { class: 'num', text: 'Moments tested' }),
         el('th', { class: 'num', text: 'Error (d)' }), el('th', { class: 'num', text: 'Plain average (d)' }), el('th', { class: 'num', text: 'Inside the range' }))), rows)));
-    const chosen = f.choices ? ' The states were chosen by measurement: ' + f.config.abstraction + ' over ' + (f.config.horizon ? 'the last ' + f.config.horizon + ' activities' : 'the whole case so far') + '.' : '';
-    const refined = f.config.attribute ? ' States also tell cases apart by ' + f.config.attribute + '.' : '';
+    const over = (c) => c.abstraction + ' over ' + (c.horizon ? 'the last ' + c.horizon + ' activities' : 'the whole case so far');
+    const chosen = f.search.states ? ' The states were chosen by measurement: ' + over(f.config) + '.' : '';
+    const refined = f.config.attribute ? ' States also tell cases apart by ' + f.config.attribute + (f.search.attribute ? ', which lowered the error on past cases.' : '.')
+      : f.search.attribute ? ' No case attribute lowered the error on past cases, so none tells cases apart.' : '';
+    const tried = el('tbody');
+    for (const c of f.choices || []) {
+      const used = c.config.abstraction === f.config.abstraction && c.config.horizon === f.config.horizon && (c.config.attribute || '') === (f.config.attribute || '');
+      tried.append(el('tr', {}, el('td', { text: over(c.config) }), el('td', { text: c.config.attribute || '(nothing)' }),
+        el('td', { class: 'num', text: c.mae_days.toFixed(2) }), el('td', { text: used ? 'yes' : '' })));
+    }
+    const choices = f.choices ? el('details', {}, el('summary', { text: 'Settings compared on past cases (3 folds)' }),
+      el('div', { class: 'table-wrap' }, el('table', {}, el('thead', {}, el('tr', {}, el('th', { text: 'States' }), el('th', { text: 'Told apart by' }),
+        el('th', { class: 'num', text: 'Error (d)' }), el('th', { text: 'Kept' }))), tried))) : null;
     const cuts = (ev.cut_dates || [ev.cut_date]).map((d) => d.slice(0, 10));
     const tested = cuts.length > 1
       ? ' Tested at ' + cuts.length + ' past dates (' + cuts.join(', ') + '): each time trained on the cases that had ended by then (' + fmtInt(ev.train_cases) + ' on average)'
@@ -738,7 +749,7 @@
       ', tested on ' + fmtInt(ev.test_prefixes) + ' moments of ' + fmtInt(ev.test_cases) + ' cases that were open then.' + ratio +
       (f.kfold ? ' Across 5 folds of ' + (f.kfold_cases < f.completed_cases ? 'an even sample of ' + fmtInt(f.kfold_cases) + ' finished cases' : 'all finished cases') + ': error ' + f.kfold.mae_days.toFixed(2) + ' d, ' + pct(f.kfold.coverage) + ' inside the range.' : '') +
       ' A case is finished when it reaches ' + f.end_activities.join(', ') + '; one silent for more than ' + f.inactive_after_days.toFixed(0) + ' days counts as abandoned (' + fmtInt(f.abandoned_cases) + ').' });
-    $('fc-eval').replaceChildren(figs, how, byLen);
+    $('fc-eval').replaceChildren(figs, how, byLen, ...(choices ? [choices] : []));
     const t = $('fc-list');
     const head = el('tr', {}, el('th', { scope: 'col', text: 'Case' }), el('th', { scope: 'col', text: 'Last activity' }), el('th', { scope: 'col', text: 'Expected finish' }),
       el('th', { scope: 'col', text: 'Likely between' }), el('th', { scope: 'col', text: 'Most likely next' }), f.outcome ? el('th', { scope: 'col', class: 'num', text: 'Chance: ' + f.outcome }) : null);

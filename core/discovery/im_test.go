@@ -141,22 +141,34 @@ func TestFrequent(t *testing.T) {
 	assert.Equal(t, []int{4, 2, 1}, l.Frequent(0.7).Counts, "by frequency, ties in order of first appearance")
 }
 
-// TestFrequentRediscovers: on a generated log whose noise scatters over many variants (synth, 5%
-// of cases with a random extra, missing or swapped event), IMf on the variants that cover 90% of
-// the cases gives back the generator's process tree (synth.ProcessTree); on all variants it does
-// not. Running cases are left out, as the page leaves them out of conformance checking.
+// TestFrequentRediscovers: on a generated log without noise (synth) the Inductive Miner gives
+// back the generator's process tree (synth.ProcessTree), as Leemans, Fahland and van der Aalst
+// (2013, "Discovering block-structured process models from event logs", Theorem on
+// rediscoverability) promise for a directly-follows complete log. With 5% of cases given a random
+// extra, missing or swapped event, IMf on all variants no longer does; on the variants that cover
+// 90% of the cases it gives the same tree as on the 90% of the noise-free log: the filter takes
+// the noise away. (It also takes away the rarest true orders: parts arriving before the quote is
+// sent, or the approval before the order, about 3% of repaired bikes with the scenario's lead
+// times; so both give ∧(Order parts, Send quote) then ∧(Receive parts, Record approval), which the
+// test states.) Running cases are left out, as the page leaves them out of conformance checking.
 func TestFrequentRediscovers(t *testing.T) {
-	lg := synth.Generate(synth.Config{Seed: 1, Events: 100_000, Noise: 0.05, Shifts: true})
-	var finished [][]string
-	for _, c := range lg.Cases {
-		if !c.Running {
-			finished = append(finished, c.Activity)
+	finished := func(noise float64) Log {
+		lg := synth.Generate(synth.Config{Seed: 1, Events: 100_000, Noise: noise, Shifts: true})
+		var out [][]string
+		for _, c := range lg.Cases {
+			if !c.Running {
+				out = append(out, c.Activity)
+			}
 		}
+		return FromStrings(out...)
 	}
-	l := FromStrings(finished...)
+	clean, noisy := finished(0), finished(0.05)
 	want, err := tree.Parse(synth.ProcessTree)
 	require.NoError(t, err)
-	got := InductiveMiner(l.Frequent(0.9), Options{Noise: 0.2})
-	assert.Equal(t, want.Canonical().String(), got.String())
-	assert.NotEqual(t, want.Canonical().String(), InductiveMiner(l, Options{Noise: 0.2}).String())
+	assert.Equal(t, want.Canonical().String(), InductiveMiner(clean, Options{}).String(), "rediscovered without noise")
+	assert.NotEqual(t, want.Canonical().String(), InductiveMiner(noisy, Options{Noise: 0.2}).String(), "the noise hides it")
+	frequent := InductiveMiner(noisy.Frequent(0.9), Options{Noise: 0.2}).String()
+	assert.Equal(t, InductiveMiner(clean.Frequent(0.9), Options{Noise: 0.2}).String(), frequent, "the filter takes the noise away")
+	assert.Equal(t, "→(Register claim, Inspect bike, ×(→(Reject claim, Return bike), →(∧(Order parts, Send quote), ∧(Receive parts, Record approval), "+
+		"Repair bike, ↺(Test ride, Adjust repair), Hand over bike)))", frequent)
 }

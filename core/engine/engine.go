@@ -609,7 +609,8 @@ type ForecastOptions struct {
 	Outcome     string   `json:"outcome"` // ends:X, contains:X, longer:10d, or ""
 	End         []string `json:"end_activities"`
 	KFold       int      `json:"kfold"`
-	// Attribute names a case attribute whose value refines every state ("" for none).
+	// Attribute names a case attribute whose value refines every state ("" for none, "auto" for
+	// the one, if any, that lowered the error on past cases; predict.Choose).
 	Attribute string `json:"attribute"`
 }
 
@@ -625,6 +626,7 @@ type ForecastResult struct {
 	Outcome       string                    `json:"outcome,omitempty"`
 	Config        predict.Config            `json:"config"`
 	Choices       []predict.Choice          `json:"choices,omitempty"` // when the states were chosen by measurement
+	Search        predict.Search            `json:"search"`            // what was chosen by measurement
 	Activities    []string                  `json:"activities"`        // for the end-activity picker
 	CaseAttrs     []string                  `json:"case_attributes"`   // for the refinement picker
 	Running       []predict.RunningForecast `json:"running"`
@@ -652,9 +654,10 @@ func (e *Engine) forecast(ctx context.Context, req Request, emit func(Response))
 	if err != nil {
 		return nil, err
 	}
-	auto := o.Abstraction == "auto"
+	search := predict.Search{States: o.Abstraction == "auto", Attribute: o.Attribute == "auto"}
+	auto := search.States || search.Attribute
 	var a predict.Abstraction
-	if !auto {
+	if !search.States {
 		if a, err = predict.ParseAbstraction(o.Abstraction); err != nil {
 			return nil, err
 		}
@@ -662,10 +665,13 @@ func (e *Engine) forecast(ctx context.Context, req Request, emit func(Response))
 	if o.Horizon < 0 {
 		return nil, errors.New("the horizon is 0 (the whole prefix) or more")
 	}
-	if o.Attribute != "" && l.CaseAttr(o.Attribute) == nil {
-		return nil, fmt.Errorf("the log has no case attribute %q", o.Attribute)
+	attr := o.Attribute
+	if search.Attribute {
+		attr = ""
+	} else if attr != "" && l.CaseAttr(attr) == nil {
+		return nil, fmt.Errorf("the log has no case attribute %q", attr)
 	}
-	opt := predict.Options{Config: predict.Config{Abstraction: a, Horizon: o.Horizon, Attribute: o.Attribute}}
+	opt := predict.Options{Config: predict.Config{Abstraction: a, Horizon: o.Horizon, Attribute: attr}}
 	if len(o.End) > 0 {
 		opt.EndActivities = o.End
 	}
@@ -688,12 +694,9 @@ func (e *Engine) forecast(ctx context.Context, req Request, emit func(Response))
 	}
 	part := predict.Split(l, opt)
 	res.EndActivities, res.Completed, res.Abandoned = part.EndActivities, len(part.Completed), len(part.Abandoned)
-	// Progress by models fitted: 36 to choose the states, 3 cut dates, the folds, and the final
-	// model. Between models the host gets a turn (Yield), so that a cancel can arrive.
-	total := 3 + 1
-	if auto {
-		total += 36
-	}
+	// Progress by models fitted: those of the choice (search.Models), 3 cut dates, the folds, and
+	// the final model. Between models the host gets a turn (Yield), so that a cancel can arrive.
+	total := 3 + 1 + search.Models(l)
 	if o.KFold > 1 {
 		total += o.KFold
 	}
@@ -711,11 +714,11 @@ func (e *Engine) forecast(ctx context.Context, req Request, emit func(Response))
 		return ctx.Err()
 	}
 	if auto {
-		if opt.Config, res.Choices, err = predict.Choose(l, part, opt); err != nil {
+		if opt.Config, res.Choices, err = predict.Choose(l, part, opt, search); err != nil {
 			return nil, err
 		}
 	}
-	res.Config = opt.Config
+	res.Config, res.Search = opt.Config, search
 	res.InactiveDays = part.Inactive.Hours() / 24
 	if res.Evaluation, err = predict.Evaluate(l, part, opt); err != nil {
 		return nil, err

@@ -23,6 +23,10 @@
 // case by its duration and takes the weighted quantile; the temporal hold-out measures the
 // coverage that results.
 //
+// Choose picks the abstraction, the horizon and the refining attribute by cross-validation on the
+// completed cases, so that the user need not know which of them carries what the time left
+// depends on.
+//
 // Every forecast is an estimate from past cases, not a guarantee; Evaluate measures its error on
 // a temporal hold-out so that the page can show it beside the forecasts.
 //

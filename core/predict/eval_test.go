@@ -152,17 +152,42 @@ func TestKFold(t *testing.T) {
 	assert.Less(t, ev.Ratio, 1.0, "the states beat the prefix-length baseline")
 }
 
+// TestChoose: the choice returns the best of the table it measured. The generator's lead time for
+// parts depends on the bike model and on nothing else of the case (package synth), so that is the
+// attribute the search must keep, and the warranty tier, which changes nothing, must not win.
 func TestChoose(t *testing.T) {
 	l := generated(t, synth.Config{Seed: 6, Events: 20000, Noise: 0.05, Shifts: true})
 	part := Split(l, Options{})
-	cfg, table, err := Choose(l, part, Options{})
-	require.NoError(t, err)
-	require.Len(t, table, 12)
-	for _, c := range table {
-		if c.Config == cfg {
-			for _, d := range table {
-				assert.LessOrEqual(t, c.MAEDays, d.MAEDays)
+	require.Equal(t, []string{"bike_model", "warranty"}, AttributeCandidates(l))
+	for _, tc := range []struct {
+		search Search
+		models int
+	}{
+		{Search{States: true}, 12},
+		{Search{Attribute: true}, 1 + 2},
+		{Search{States: true, Attribute: true}, 12 + 2},
+	} {
+		cfg, table, err := Choose(l, part, Options{Config: Config{Abstraction: Multiset}}, tc.search)
+		require.NoError(t, err)
+		require.Len(t, table, tc.models, "%+v", tc.search)
+		assert.Equal(t, 3*tc.models, tc.search.Models(l), "what the progress bar counts")
+		found := false
+		for _, c := range table {
+			if c.Config == cfg {
+				found = true
+				for _, d := range table {
+					assert.LessOrEqual(t, c.MAEDays, d.MAEDays)
+				}
 			}
+		}
+		assert.True(t, found, "the choice is in the table")
+		if tc.search.Attribute {
+			assert.Equal(t, "bike_model", cfg.Attribute, "%+v", tc.search)
+		} else {
+			assert.Empty(t, cfg.Attribute)
+		}
+		if !tc.search.States {
+			assert.Equal(t, Multiset, cfg.Abstraction)
 		}
 	}
 }

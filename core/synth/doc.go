@@ -14,10 +14,13 @@
 //	        seq(and(seq(Order parts, Receive parts), seq(Send quote, Record approval)),
 //	            Repair bike, loop(Test ride, Adjust repair), Hand over bike)))
 //
-// Each activity waits an exponentially distributed time after it becomes enabled and then takes
-// a lognormally distributed service time (means in Activities). With Shifts, work starts only
-// inside the shift of the resource that takes it (clerks on weekdays 08-16, technicians in an
-// early or late shift Monday to Saturday), which adds realistic waiting; without, timing is
+// Each activity waits after it becomes enabled and then takes a lognormally distributed service
+// time (means in Activities). The waits are exponentially distributed, except for parts: the wait
+// for "Receive parts" is a supplier's lead time, lognormal and fairly regular (about ±30%) for one
+// bike model, from about a day for the folding bike to about a week for the cargo bike
+// (BikeModels), so a case's bike model tells much of how long it will take. With Shifts, work
+// starts only inside the shift of the resource that takes it (clerks on weekdays 08-16, technicians
+// in an early or late shift Monday to Saturday), which adds realistic waiting; without, timing is
 // exactly the stated distributions, which the prediction tests use as an analytic reference.
 //
 // Generation is seeded and deterministic: the same Config gives the same log, byte for byte.

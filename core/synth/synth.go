@@ -10,9 +10,13 @@ import (
 
 // Activity describes one step of the scenario: who does it and how long it waits and takes.
 type Activity struct {
-	Name     string
-	Role     string        // "clerk", "technician" or "stores"
-	Wait     time.Duration // mean of the exponential wait after the step is enabled
+	Name string
+	Role string        // "clerk", "technician" or "stores"
+	Wait time.Duration // mean wait after the step is enabled: exponential, unless LeadTime
+	// LeadTime marks a supplier's delivery: the wait is lognormal (shape leadSigma), its mean Wait
+	// times the bike model's factor (BikeModels), so it is fairly regular for one model and differs
+	// between models.
+	LeadTime bool
 	Service  time.Duration // mean of the lognormal service time
 	Sigma    float64       // lognormal shape
 	CostMean float64       // mean cost recorded on the event, 0 for none
@@ -37,18 +41,18 @@ const (
 
 // Activities of the workshop scenario (names, roles and timings are invented).
 var Activities = [numActivities]Activity{
-	Register: {"Register claim", "clerk", 0, 10 * time.Minute, 0.4, 0},
-	Inspect:  {"Inspect bike", "technician", 4 * time.Hour, 45 * time.Minute, 0.5, 0},
-	Reject:   {"Reject claim", "clerk", 2 * time.Hour, 15 * time.Minute, 0.4, 0},
-	Return:   {"Return bike", "clerk", 24 * time.Hour, 20 * time.Minute, 0.4, 0},
-	Order:    {"Order parts", "clerk", time.Hour, 15 * time.Minute, 0.4, 120},
-	Receive:  {"Receive parts", "stores", 72 * time.Hour, 10 * time.Minute, 0.3, 0},
-	Quote:    {"Send quote", "clerk", 2 * time.Hour, 10 * time.Minute, 0.3, 0},
-	Approve:  {"Record approval", "clerk", 36 * time.Hour, 5 * time.Minute, 0.3, 0},
-	Repair:   {"Repair bike", "technician", 6 * time.Hour, 2 * time.Hour, 0.5, 80},
-	Test:     {"Test ride", "technician", time.Hour, 30 * time.Minute, 0.4, 0},
-	Adjust:   {"Adjust repair", "technician", 2 * time.Hour, 45 * time.Minute, 0.5, 30},
-	Handover: {"Hand over bike", "clerk", 24 * time.Hour, 15 * time.Minute, 0.4, 0},
+	Register: {"Register claim", "clerk", 0, false, 10 * time.Minute, 0.4, 0},
+	Inspect:  {"Inspect bike", "technician", 4 * time.Hour, false, 45 * time.Minute, 0.5, 0},
+	Reject:   {"Reject claim", "clerk", 2 * time.Hour, false, 15 * time.Minute, 0.4, 0},
+	Return:   {"Return bike", "clerk", 24 * time.Hour, false, 20 * time.Minute, 0.4, 0},
+	Order:    {"Order parts", "clerk", time.Hour, false, 15 * time.Minute, 0.4, 120},
+	Receive:  {"Receive parts", "stores", 72 * time.Hour, true, 10 * time.Minute, 0.3, 0},
+	Quote:    {"Send quote", "clerk", 2 * time.Hour, false, 10 * time.Minute, 0.3, 0},
+	Approve:  {"Record approval", "clerk", 36 * time.Hour, false, 5 * time.Minute, 0.3, 0},
+	Repair:   {"Repair bike", "technician", 6 * time.Hour, false, 2 * time.Hour, 0.5, 80},
+	Test:     {"Test ride", "technician", time.Hour, false, 30 * time.Minute, 0.4, 0},
+	Adjust:   {"Adjust repair", "technician", 2 * time.Hour, false, 45 * time.Minute, 0.5, 30},
+	Handover: {"Hand over bike", "clerk", 24 * time.Hour, false, 15 * time.Minute, 0.4, 0},
 }
 
 // ProcessTree is the scenario's model in the notation of the package doc.
@@ -62,7 +66,20 @@ const (
 	pAdjust = 0.3  // a test ride fails and the repair is adjusted
 )
 
-var bikeModels = []string{"Trailhopper 9", "Citylane 3", "Cargomule XL", "Foldaway S"}
+// BikeModel is a model of bicycle the workshop repairs, with how long its parts take to arrive
+// relative to the mean lead time (Receive parts).
+type BikeModel struct {
+	Name       string
+	LeadFactor float64
+}
+
+// BikeModels are given to cases in turn; their lead times are invented: parts for the cargo bike
+// come from abroad (about a week), those for the folding bike are in stock nearby (about a day).
+var BikeModels = []BikeModel{{"Trailhopper 9", 1}, {"Citylane 3", 0.66}, {"Cargomule XL", 2.33}, {"Foldaway S", 0.33}}
+
+// leadSigma is the lognormal shape of a supplier's lead time: about ±30% around its mean.
+const leadSigma = 0.3
+
 var tiers = []string{"basic", "extended"}
 
 // Config says what log to make.
@@ -189,7 +206,12 @@ func (g *gen) do(c int32, a int, t int64) Instance {
 	act := Activities[a]
 	rs := g.pool[act.Role]
 	res := rs[g.r.IntN(len(rs))]
-	start := t + g.exp(act.Wait)
+	var start int64
+	if act.LeadTime {
+		start = t + g.lognormal(time.Duration(float64(act.Wait)*BikeModels[int(c)%len(BikeModels)].LeadFactor), leadSigma)
+	} else {
+		start = t + g.exp(act.Wait)
+	}
 	if g.cfg.Shifts {
 		if s := nextShift(start, g.shifts[res]); s != start {
 			start = s + int64(g.r.IntN(1800)) // people do not all begin at the bell
@@ -312,7 +334,7 @@ func Generate(cfg Config) *Log {
 		}
 		ids[c] = int32(len(lg.Cases))
 		lg.Cases = append(lg.Cases, Case{
-			ID: caseID(len(lg.Cases) + 1), Model: bikeModels[int(c)%len(bikeModels)], Tier: tiers[(int(c)/3)%2],
+			ID: caseID(len(lg.Cases) + 1), Model: BikeModels[int(c)%len(BikeModels)].Name, Tier: tiers[(int(c)/3)%2],
 			Running: running[c], Noise: caseNoise[c], Activity: traces[c],
 		})
 	}

@@ -483,6 +483,20 @@ func TestForecastView(t *testing.T) {
 		openDemo(html),
 		chromedp.Click(chromedp.CSS(`#views [data-view="forecast"]`)),
 		chromedp.WaitVisible(chromedp.CSS(`#forecast[data-ready="true"] #fc-list tbody tr`)),
+	))
+	// by default the states are refined by the case attribute that lowered the error, if any: in
+	// the demo scenario the bike model sets the lead time of parts (package synth)
+	first, err := chromedp.Run(ctx, chromedp.Evaluate[string](`(() => {
+		const d = document.querySelector('#fc-eval details:last-of-type');
+		d.open = true;
+		return document.querySelector('#fc-eval p.muted').textContent + '|' + d.querySelector('summary').textContent + '|rows:' + d.querySelectorAll('tbody tr').length;
+	})()`))
+	require.NoError(t, err)
+	assert.Contains(t, first, "apart by bike_model, which lowered the error on past cases")
+	assert.Contains(t, first, "|Settings compared on past cases")
+	assert.Contains(t, first, "|rows:3", "without an attribute, by bike_model, by warranty")
+	shot(t, ctx, "forecast-default")
+	require.NoError(t, chromedp.Do(ctx,
 		chromedp.SetValue(chromedp.CSS(`#fc-outcome-kind`), "ends"),
 		chromedp.SetValue(chromedp.CSS(`#fc-outcome-arg`), "Hand over bike"),
 		chromedp.SetValue(chromedp.CSS(`#fc-attr`), "warranty"),
@@ -495,7 +509,7 @@ func TestForecastView(t *testing.T) {
 	}
 	how, err := chromedp.Run(ctx, chromedp.Text(chromedp.CSS(`#fc-eval p.muted`)))
 	require.NoError(t, err)
-	assert.Contains(t, how, "apart by warranty")
+	assert.Contains(t, how, "apart by warranty.", "chosen by the user, not measured")
 	assert.Contains(t, how, "Tested at 3 past dates")
 	assert.Regexp(t, `likely 0\.\d\d to \d\.\d\d on other past cases`, how, "the error ratio comes with its range")
 	cov, err := chromedp.Run(ctx, chromedp.Text(chromedp.CSS(`#fc-eval [data-metric="coverage"]`)))

@@ -160,6 +160,16 @@ func TestPredictJSON(t *testing.T) {
 		assert.Contains(t, res, k)
 	}
 	assert.NotEmpty(t, res["running"])
+	// by default the states are refined by the case attribute that lowered the error: in the demo
+	// scenario the bike model sets the lead time of parts (package synth); --attribute "" refines by none
+	assert.Equal(t, "bike_model", res["attribute"])
+	assert.Len(t, res["choices"], 3, "without an attribute, by bike_model, by warranty")
+	code, out, errs = runCLI("predict", "../../testdata/workshop.csv", "--json", "--attribute", "")
+	require.Equal(t, exitOK, code, errs)
+	res = nil
+	require.NoError(t, json.Unmarshal([]byte(out), &res))
+	assert.NotContains(t, res, "attribute")
+	assert.NotContains(t, res, "choices")
 	code, _, errs = runCLI("predict", "../../testdata/workshop.csv", "--outcome", "soon")
 	assert.Equal(t, exitUsage, code)
 	assert.Contains(t, errs, "outcome")

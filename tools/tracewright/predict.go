@@ -16,6 +16,7 @@ type predictOutput struct {
 	*predict.Evaluation
 	Abstraction   predict.Abstraction       `json:"abstraction"`
 	Horizon       int                       `json:"horizon"`
+	Attribute     string                    `json:"attribute,omitempty"`
 	Outcome       string                    `json:"outcome,omitempty"`
 	EndActivities []string                  `json:"end_activities"`
 	InactiveDays  float64                   `json:"inactive_after_days"`
@@ -33,9 +34,9 @@ func predictCommand(ctx context.Context, args []string, stdout io.Writer) error 
 	fs := flag.NewFlagSet("predict", flag.ContinueOnError)
 	var rf readFlags
 	rf.register(fs)
-	abs := fs.String("abstraction", "sequence", "sequence, multiset, set, or auto (the one that predicted past cases best)")
+	abs := fs.String("abstraction", "multiset", "sequence, multiset, set, or auto (the one that predicted past cases best)")
 	horizon := fs.Int("horizon", 0, "how many last activities a state looks at (0: all)")
-	attr := fs.String("attribute", "", "a case attribute that refines the states")
+	attr := fs.String("attribute", "auto", "a case attribute that refines the states, auto (the one, if any, that predicted past cases better) or \"\" (none)")
 	outcome := fs.String("outcome", "", "ends:ACTIVITY, contains:ACTIVITY or longer:DURATION (e.g. longer:10d)")
 	ends := fs.String("end", "", "activities that end a case, comma-separated (default: inferred)")
 	inactive := fs.Duration("inactive", 0, "a case silent longer than this is abandoned, not running (default: the longest pause of any completed case)")
@@ -45,10 +46,13 @@ func predictCommand(ctx context.Context, args []string, stdout io.Writer) error 
 	if perr != nil {
 		return perr
 	}
-	auto := *abs == "auto"
+	search := predict.Search{States: *abs == "auto", Attribute: *attr == "auto"}
+	if search.Attribute {
+		*attr = ""
+	}
 	var a predict.Abstraction
 	var err error
-	if !auto {
+	if !search.States {
 		if a, err = predict.ParseAbstraction(*abs); err != nil {
 			return &usageError{err.Error()}
 		}
@@ -71,8 +75,8 @@ func predictCommand(ctx context.Context, args []string, stdout io.Writer) error 
 	}
 	part := predict.Split(l, opt)
 	var choices []predict.Choice
-	if auto {
-		if opt.Config, choices, err = predict.Choose(l, part, opt); err != nil {
+	if search.States || search.Attribute {
+		if opt.Config, choices, err = predict.Choose(l, part, opt, search); err != nil {
 			return err
 		}
 		a, *horizon = opt.Config.Abstraction, opt.Config.Horizon
@@ -82,7 +86,7 @@ func predictCommand(ctx context.Context, args []string, stdout io.Writer) error 
 		return err
 	}
 	out := predictOutput{Evaluation: ev, Abstraction: a, Horizon: *horizon, EndActivities: part.EndActivities,
-		InactiveDays: part.Inactive.Hours() / 24, Completed: len(part.Completed), Abandoned: len(part.Abandoned), Caution: caution, Choices: choices}
+		Attribute: opt.Config.Attribute, InactiveDays: part.Inactive.Hours() / 24, Completed: len(part.Completed), Abandoned: len(part.Abandoned), Caution: caution, Choices: choices}
 	if opt.Outcome != nil {
 		out.Outcome = opt.Outcome.String()
 	}
@@ -100,7 +104,11 @@ func predictCommand(ctx context.Context, args []string, stdout io.Writer) error 
 	if *asJSON {
 		return printJSON(stdout, out)
 	}
-	fmt.Fprintf(stdout, "states: %s over %s; %d completed, %d running, %d abandoned cases\n", a, horizonText(*horizon), len(part.Completed), len(part.Running), len(part.Abandoned))
+	apart := ""
+	if opt.Config.Attribute != "" {
+		apart = ", cases told apart by " + opt.Config.Attribute
+	}
+	fmt.Fprintf(stdout, "states: %s over %s%s; %d completed, %d running, %d abandoned cases\n", a, horizonText(*horizon), apart, len(part.Completed), len(part.Running), len(part.Abandoned))
 	fmt.Fprintf(stdout, "error on past cases (cut dates %s; tested on %d prefixes of %d cases open then):\n", strings.Join(ev.Cuts, ", "), ev.TestPrefixes, ev.TestCases)
 	fmt.Fprintf(stdout, "  remaining time: %.2f days off on average (%.2fx the mean by number of events, %.2f days; 95%% range of the ratio %.2f-%.2f)\n", ev.MAEDays, ev.Ratio, ev.BaselineDays, ev.RatioRange[0], ev.RatioRange[1])
 	fmt.Fprintf(stdout, "  the %.0f%% interval held the truth for %.1f%% of prefixes (95%% range %.1f-%.1f%%); next activity right %.1f%%\n", ev.Level*100, ev.Coverage*100, ev.CoverageRange[0]*100, ev.CoverageRange[1]*100, ev.NextAccuracy*100)
