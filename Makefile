@@ -46,9 +46,10 @@ bench-analyses:
 	$(GO) test -run '^$$' -bench Predict -benchtime 1x ./core/predict/
 
 ## bench-page: the page in headless chromium: start-up, a 1M-event CSV to the overview, peak
-## memory, and the same intake natively in the same run
+## memory, and the same intake natively in the same run; then the intake alone compiled for
+## wasm in chromium and under node beside native
 bench-page:
-	$(GO) test -run '^$$' -bench BenchmarkPage -benchtime 1x -timeout 20m ./tools/bundle/
+	$(GO) test -run '^$$' -bench 'BenchmarkPage|BenchmarkIntakeInChromium' -benchtime 1x -timeout 20m ./tools/bundle/
 
 ## fuzz: a short run of every fuzz target (FUZZTIME each)
 FUZZTIME ?= 30s

@@ -12,4 +12,8 @@
 // parses, where File.stream() on the engine's thread made reading and parsing take turns. Go
 // keeps every JS value it was handed alive until its collector runs, and its heap grows slowly,
 // so without care the worker held the whole file; a collection every 64 MB read keeps it flat.
+//
+// Memory touched for the first time costs a page fault, and a module's memory never shrinks: after
+// a sniff, while the user checks the columns, the host touches about as much memory as the load
+// will need (warmMemory), and the load reuses those pages.
 package main

@@ -108,6 +108,15 @@ func TestLoadErrorsAreData(t *testing.T) {
 
 	r = e.Handle(context.Background(), req("overview", 6, ""), nil, nil)
 	assert.Equal(t, "error", r.Kind, "nothing loaded yet")
+
+	// a load drops the log loaded before as it starts, so that the new one can reuse its memory:
+	// after a failed load there is no log
+	r = e.Handle(context.Background(), req("load", 7, ""), fileOf("good.csv", "case,activity,time\n1,a,2024-01-01\n1,b,2024-01-02\n"), nil)
+	require.Equal(t, "result", r.Kind, "%v", r.Payload)
+	require.Equal(t, "result", e.Handle(context.Background(), req("overview", 8, ""), nil, nil).Kind)
+	r = e.Handle(context.Background(), req("load", 9, ""), fileOf("bad.csv", "case,activity,time\n1,a,2024-01-01\n1,b,someday\n"), nil)
+	require.Equal(t, "error", r.Kind)
+	assert.Equal(t, "error", e.Handle(context.Background(), req("overview", 10, ""), nil, nil).Kind, "the earlier log is gone")
 }
 
 // blockingReader yields one row, then waits until the test lets it go on.
@@ -311,4 +320,31 @@ func TestConformance(t *testing.T) {
 	r = e.Handle(context.Background(), req("conformance", 3, `{"source":"pnml"}`), fileOf("x.pnml", string(pnml)), nil)
 	require.Equal(t, "result", r.Kind, "%v", r.Payload)
 	assert.NotEmpty(t, r.Payload.(*ConformanceResult).Unmatched.Labels, "the running example's labels are not the workshop's")
+}
+
+// TestSniffNeed: a sniff says about how much memory the whole read will allocate, for the host to
+// make ready (package wasm), by format; for a gzip'd file it cannot tell.
+func TestSniffNeed(t *testing.T) {
+	csv := "case,activity,time\n1,a,2024-01-01\n1,b,2024-01-02\n"
+	xes := `<log xes.version="1.0"><trace><string key="concept:name" value="1"/><event><string key="concept:name" value="a"/></event></trace></log>`
+	for _, tc := range []struct {
+		name, body string
+		want       int64
+	}{
+		{"log.csv", csv, int64(needPerCSVByte * float64(len(csv)))},
+		{"log.xes", xes, int64(needPerXESByte * float64(len(xes)))},
+		{"log.csv.gz", csv, 0},
+	} {
+		r := New().Handle(context.Background(), req("sniff", 1, ""), fileOf(tc.name, tc.body), nil)
+		require.Equal(t, "result", r.Kind, "%s: %v", tc.name, r.Payload)
+		assert.Equal(t, tc.want, r.Payload.(*SniffResult).Need, tc.name)
+		assert.NotContains(t, string(mustJSON(t, r.Payload)), "need", "not part of the message API")
+	}
+}
+
+func mustJSON(t *testing.T, v any) []byte {
+	t.Helper()
+	b, err := json.Marshal(v)
+	require.NoError(t, err)
+	return b
 }

@@ -5,7 +5,11 @@ package main
 import (
 	"bytes"
 	"context"
+	"net/http"
+	"net/http/httptest"
+	"net/url"
 	"os"
+	"os/exec"
 	"path/filepath"
 	"runtime"
 	"strconv"
@@ -118,8 +122,27 @@ func BenchmarkPage(b *testing.B) {
 		b.ReportMetric(float64(readTime2)/float64(native1), "warm-wasm/native-1core")
 		b.ReportMetric(float64(peak-base)/(1<<20), "peak-extra-MB")
 		b.Logf("events %s, file %d MB, browser RSS %d MB before and %d MB at peak", got["events"], buf.Len()>>20, base>>20, peak>>20)
+
+		// a first read as a user makes it: the page left to settle, the file dropped, a look at
+		// the columns (during which the engine makes memory ready; wasm/main.go), then Read
+		ctx2, _ := browser(b)
+		if err := chromedp.Do(ctx2, chromedp.Navigate("file://"+html), chromedp.WaitVisible(chromedp.CSS(`body[data-engine="ready"]`)),
+			chromedp.Sleep(2*time.Second), chromedp.SetUploadFiles(chromedp.CSS(`#file-input`), []string{csv}),
+			chromedp.WaitVisible(chromedp.CSS(`#mapping`)), chromedp.Sleep(lookAtColumns)); err != nil {
+			b.Fatal(err)
+		}
+		read3 := time.Now()
+		if err := chromedp.Do(ctx2, chromedp.Click(chromedp.CSS(`#read-button`)), quietWait(`#overview[data-ready="true"]`)); err != nil {
+			b.Fatal(err)
+		}
+		readTime3 := time.Since(read3)
+		b.ReportMetric(float64(readTime3.Milliseconds()), "read-after-look-ms")
+		b.ReportMetric(float64(readTime3)/float64(native1), "after-look-wasm/native-1core")
 	}
 }
+
+// lookAtColumns is how long the benchmark's user looks at the guessed columns before reading.
+const lookAtColumns = 3 * time.Second
 
 // quietWait waits inside the page, which checks every 20 ms, for an element to match selector.
 // chromedp's WaitVisible asks the page over the DevTools protocol every 5 ms, and on a machine of
@@ -179,3 +202,106 @@ func rssOf(profile string) int64 {
 	}
 	return total
 }
+
+// BenchmarkIntakeInChromium runs core/intake's BenchmarkIntakeCSV at 1M events (the same
+// generated log as BenchmarkPage's, its bytes in memory: no file, no page, no progress) compiled
+// for wasm in a worker of headless chromium, the same compiled for wasm under node, and natively
+// on one core, one after the other in the same run. It measures the engine's computing apart
+// from what the page adds to it (reading and copying the file, progress, the overview drawn),
+// which is the difference between BenchmarkPage's warm read and this.
+func BenchmarkIntakeInChromium(b *testing.B) {
+	const bench = "IntakeCSV/events=1000000$"
+	args := []string{"-test.run=^$", "-test.bench=" + bench, "-test.benchtime=5x"}
+	gobin := filepath.Join(runtime.GOROOT(), "bin", "go")
+	dir := b.TempDir()
+	build := func(out string, env ...string) {
+		cmd := exec.Command(gobin, "test", "-c", "-o", out, "../../core/intake")
+		cmd.Env = append(os.Environ(), env...)
+		if msg, err := cmd.CombinedOutput(); err != nil {
+			b.Fatalf("building the intake benchmark: %v\n%s", err, msg)
+		}
+	}
+	build(filepath.Join(dir, "intake.wasm"), "GOOS=js", "GOARCH=wasm")
+	build(filepath.Join(dir, "intake.native"))
+	wasmExec, err := os.ReadFile(filepath.Join(runtime.GOROOT(), "lib", "wasm", "wasm_exec.js"))
+	if err != nil {
+		b.Fatal(err)
+	}
+	for name, text := range map[string]string{"wasm_exec.js": string(wasmExec), "index.html": harnessPage, "worker.js": harnessWorker} {
+		if err := os.WriteFile(filepath.Join(dir, name), []byte(text), 0o644); err != nil {
+			b.Fatal(err)
+		}
+	}
+	nsPerOp := func(out string) float64 {
+		for _, line := range strings.Split(out, "\n") {
+			f := strings.Fields(line)
+			if len(f) >= 4 && strings.HasPrefix(f[0], "BenchmarkIntakeCSV/events=1000000") && f[3] == "ns/op" {
+				v, _ := strconv.ParseFloat(f[2], 64)
+				return v
+			}
+		}
+		b.Fatalf("no result in the benchmark's output:\n%s", out)
+		return 0
+	}
+	for b.Loop() {
+		cmd := exec.Command(filepath.Join(dir, "intake.native"), args...)
+		cmd.Env = append(os.Environ(), "GOMAXPROCS=1")
+		out, err := cmd.CombinedOutput()
+		if err != nil {
+			b.Fatalf("%v\n%s", err, out)
+		}
+		native := nsPerOp(string(out))
+
+		cmd = exec.Command(filepath.Join(runtime.GOROOT(), "lib", "wasm", "go_js_wasm_exec"), append([]string{filepath.Join(dir, "intake.wasm")}, args...)...)
+		cmd.Dir = filepath.Join(runtime.GOROOT(), "..") // any directory; the benchmark reads no file
+		if out, err = cmd.CombinedOutput(); err != nil {
+			b.Fatalf("%v\n%s", err, out)
+		}
+		node := nsPerOp(string(out))
+
+		srv := httptest.NewServer(http.FileServer(http.Dir(dir)))
+		ctx, _ := browser(b)
+		if err := chromedp.Do(ctx, chromedp.Navigate(srv.URL+"/index.html?args="+url.QueryEscape(strings.Join(args, " ")))); err != nil {
+			b.Fatal(err)
+		}
+		text, err := chromedp.Run(ctx, quietWaitText(`#out[data-done]`))
+		srv.Close()
+		if err != nil {
+			b.Fatal(err)
+		}
+		chromium := nsPerOp(text)
+		b.ReportMetric(native/1e6, "native-1core-ms")
+		b.ReportMetric(node/1e6, "node-ms")
+		b.ReportMetric(chromium/1e6, "chromium-worker-ms")
+		b.ReportMetric(node/native, "node/native")
+		b.ReportMetric(chromium/native, "chromium/native")
+	}
+}
+
+// quietWaitText is quietWait that returns the element's text.
+func quietWaitText(selector string) chromedp.Action[string] {
+	return chromedp.Evaluate[string](`new Promise((resolve) => {
+		const check = () => { const e = document.querySelector(`+strconv.Quote(selector)+`); if (e) resolve(e.textContent); else setTimeout(check, 100); };
+		check();
+	})`, chromedp.EvalAwaitPromise)
+}
+
+// harnessPage runs a Go test binary compiled for wasm in a worker, with the arguments in the
+// query, and writes its output into #out, marked data-done at the end.
+const harnessPage = `<!doctype html><html><body><pre id="out"></pre><script>
+const out = document.getElementById('out');
+const w = new Worker('worker.js');
+w.onmessage = (e) => { if (e.data === null) out.dataset.done = 'true'; else out.textContent += e.data; };
+w.postMessage(new URLSearchParams(location.search).get('args').split(' '));
+</script></body></html>`
+
+const harnessWorker = `importScripts('wasm_exec.js');
+onmessage = async (e) => {
+  const decoder = new TextDecoder();
+  globalThis.fs.writeSync = (fd, buf) => { postMessage(decoder.decode(buf)); return buf.length; };
+  const go = new Go();
+  go.argv = ['intake.wasm', ...e.data];
+  go.exit = () => postMessage(null);
+  const { instance } = await WebAssembly.instantiateStreaming(fetch('intake.wasm'), go.importObject);
+  await go.run(instance);
+};`
