@@ -626,6 +626,8 @@
   }
 
   let forecast = null;
+  const FC_PAGE = 100; // open cases listed at a time
+  let fcShown = FC_PAGE;
   let fcRunning = 0;
   $('fc-stop').addEventListener('click', () => { if (fcRunning) call('cancel', { id: fcRunning }); });
   async function runForecast() {
@@ -644,6 +646,7 @@
       fcRunning = id;
       $('fc-stop').hidden = false;
       forecast = await done;
+      fcShown = FC_PAGE;
       renderForecast();
     } catch (err) {
       const stopped = err && err.cause === 'cancelled';
@@ -654,7 +657,8 @@
     }
   }
   $('fc-run').addEventListener('click', runForecast);
-  $('fc-sort').addEventListener('change', () => { if (forecast) renderForecast(); });
+  $('fc-sort').addEventListener('change', () => { if (forecast) { fcShown = FC_PAGE; renderList(); } });
+  $('fc-more').addEventListener('click', () => { fcShown += FC_PAGE; renderList(); });
   const pct = (x) => (100 * x).toFixed(1) + '%';
   function renderEnds(f) {
     const box = $('fc-ends');
@@ -750,6 +754,14 @@
       (f.kfold ? ' Across 5 folds of ' + (f.kfold_cases < f.completed_cases ? 'an even sample of ' + fmtInt(f.kfold_cases) + ' finished cases' : 'all finished cases') + ': error ' + f.kfold.mae_days.toFixed(2) + ' d, ' + pct(f.kfold.coverage) + ' inside the range.' : '') +
       ' A case is finished when it reaches ' + f.end_activities.join(', ') + '; one silent for more than ' + f.inactive_after_days.toFixed(0) + ' days counts as abandoned (' + fmtInt(f.abandoned_cases) + ').' });
     $('fc-eval').replaceChildren(figs, how, byLen, ...(choices ? [choices] : []));
+    renderList();
+    $('fc-list-wrap').hidden = false;
+    $('forecast').dataset.ready = 'true';
+  }
+  // renderList fills the table of open cases in the chosen order, FC_PAGE rows at a time: a large
+  // log has thousands, and the CSV holds them all.
+  function renderList() {
+    const f = forecast;
     const t = $('fc-list');
     const head = el('tr', {}, el('th', { scope: 'col', text: 'Case' }), el('th', { scope: 'col', text: 'Last activity' }), el('th', { scope: 'col', text: 'Expected finish' }),
       el('th', { scope: 'col', text: 'Likely between' }), el('th', { scope: 'col', text: 'Most likely next' }), f.outcome ? el('th', { scope: 'col', class: 'num', text: 'Chance: ' + f.outcome }) : null);
@@ -758,7 +770,8 @@
     const running = [...f.running];
     if (order === 'late') running.sort((a, b) => (a.finish_high < b.finish_high ? 1 : -1));
     if (order === 'risk') running.sort((a, b) => b.forecast.outcome_probability - a.forecast.outcome_probability);
-    for (const r of running) {
+    const shown = running.slice(0, fcShown);
+    for (const r of shown) {
       const fc = r.forecast;
       let next = 'finish', best = fc.end_probability;
       for (const [a, p] of Object.entries(fc.next)) if (p > best) { best = p; next = a; }
@@ -770,8 +783,10 @@
         f.outcome ? el('td', { class: 'num', text: pct(fc.outcome_probability) }) : null));
     }
     t.replaceChildren(el('thead', {}, head), body);
-    $('fc-list-wrap').hidden = false;
-    $('forecast').dataset.ready = 'true';
+    const left = running.length - shown.length;
+    $('fc-count').textContent = left ? fmtInt(shown.length) + ' of ' + fmtInt(running.length) + ' open cases shown.' : fmtInt(running.length) + ' open cases.';
+    $('fc-more').hidden = left === 0;
+    $('fc-more').textContent = 'Show ' + fmtInt(Math.min(FC_PAGE, left)) + ' more';
   }
   $('fc-csv').addEventListener('click', () => {
     if (!forecast) return;

@@ -539,6 +539,59 @@ func TestForecastView(t *testing.T) {
 	assert.Empty(t, rl.failures)
 }
 
+// TestForecastListPages: a log with hundreds of open cases lists them a hundred at a time, in
+// the chosen order, with a button for more; the CSV holds them all.
+func TestForecastListPages(t *testing.T) {
+	html := builtPage(t)
+	// many arrivals a day: at the export date a few hundred cases are still open (synth)
+	csv := generatedCSV(t, synth.Config{Seed: 8, Events: 30_000, CasesPerDay: 80}, synth.ByTime)
+	ctx, rl := browser(t)
+	rows := func() int {
+		n, err := chromedp.Run(ctx, chromedp.Evaluate[int](`document.querySelectorAll('#fc-list tbody tr').length`))
+		require.NoError(t, err)
+		return n
+	}
+	require.NoError(t, chromedp.Do(ctx,
+		chromedp.Navigate("file://"+html),
+		chromedp.WaitVisible(chromedp.CSS(`body[data-engine="ready"]`)),
+		chromedp.SetUploadFiles(chromedp.CSS(`#file-input`), []string{csv}),
+		chromedp.WaitVisible(chromedp.CSS(`#mapping`)),
+		chromedp.Click(chromedp.CSS(`#read-button`)),
+		chromedp.WaitVisible(chromedp.CSS(`#overview[data-ready="true"]`)),
+		chromedp.Click(chromedp.CSS(`#views [data-view="forecast"]`)),
+		chromedp.WaitVisible(chromedp.CSS(`#forecast[data-ready="true"] #fc-list tbody tr`)),
+	))
+	count, err := chromedp.Run(ctx, chromedp.Text(chromedp.CSS(`#fc-count`)))
+	require.NoError(t, err)
+	var shown, total int
+	_, err = fmt.Sscanf(strings.ReplaceAll(count, ",", ""), "%d of %d open cases shown.", &shown, &total)
+	require.NoError(t, err, "the count says how many are shown: %q", count)
+	require.Greater(t, total, 200, "the log has hundreds of open cases")
+	assert.Equal(t, 100, shown)
+	assert.Equal(t, 100, rows())
+	shot(t, ctx, "forecast-pages")
+	require.NoError(t, chromedp.Do(ctx, chromedp.Click(chromedp.CSS(`#fc-more`))))
+	assert.Equal(t, 200, rows())
+	// a new order starts again from the first hundred, sorted over all open cases
+	require.NoError(t, chromedp.Do(ctx, chromedp.SetValue(chromedp.CSS(`#fc-sort`), "late")))
+	_, err = chromedp.Run(ctx, chromedp.Evaluate[bool](`document.getElementById('fc-sort').dispatchEvent(new Event('change'))`))
+	require.NoError(t, err)
+	assert.Equal(t, 100, rows())
+	firsts, err := chromedp.Run(ctx, chromedp.Evaluate[[]string](`[...document.querySelectorAll('#fc-list tbody tr td:nth-child(4)')].map((td) => td.textContent.slice(-10))`))
+	require.NoError(t, err)
+	for i := 1; i < len(firsts); i++ {
+		assert.GreaterOrEqual(t, firsts[i-1], firsts[i], "latest possible finish first")
+	}
+	for range (total - 100 + 99) / 100 {
+		require.NoError(t, chromedp.Do(ctx, chromedp.Click(chromedp.CSS(`#fc-more`))))
+	}
+	assert.Equal(t, total, rows())
+	hidden, err := chromedp.Run(ctx, chromedp.Evaluate[bool](`document.getElementById('fc-more').hidden`))
+	require.NoError(t, err)
+	assert.True(t, hidden, "no more to show")
+	assert.Empty(t, rl.failures)
+}
+
 // TestConformanceView checks the demo log against its discovered model and against a PNML file.
 func TestConformanceView(t *testing.T) {
 	html := builtPage(t)
