@@ -112,21 +112,23 @@ func (h *host) handle(msg js.Value, w *warmer) {
 	}
 }
 
-// Warming memory: in Chromium a wasm page touched for the first time costs a page fault, and on
-// the 2-core test machine the engine's first read of a 70 MB CSV spent about 0.5 s of its 1.8 s
-// on them (a 16 MB copy into fresh memory took 120-136 ms, into used memory about 1 ms). The
-// engine's memory never shrinks, so memory touched once stays ready. After a sniff, while the
-// user checks the columns, warmMemory touches about as much as the load will allocate, in blocks,
-// giving the event loop a turn after each one; any message but the mapping step's parse_time
-// stops it, and waits for it to let go of its blocks. The load then collects
-// those blocks (engine.load) and reuses their pages. A load that starts at once loses nothing:
-// the pages touched by then are the pages it would have touched.
+// Warming memory: in Chromium a wasm page touched for the first time costs a page fault, and on the
+// 2-core test machine the engine's first read of a 70 MB CSV spent about 0.5 s of its 1.8 s on them
+// (a 16 MB copy into fresh memory took 120-136 ms, into used memory about 1 ms). The engine's
+// memory never shrinks, so memory touched once stays ready. After a sniff, while the user checks
+// the columns, warmMemory touches about as much as the load will allocate, in blocks, giving the
+// event loop a turn after each one; any message but the mapping step's parse_time stops it, and
+// waits for it to let go of its blocks. The load then collects those blocks (engine.load) and
+// reuses their pages. A load that starts at once loses nothing: the pages touched by then are the
+// pages it would have touched.
 const (
 	warmBlock = 4 << 20
 	warmMin   = 16 << 20 // smaller files read fast enough anyway
 	warmMax   = 1 << 30  // the engine's memory is at most 4 GB
 )
 
+// warmMemory allocates about n bytes in warmBlock blocks and touches every page of them (one the
+// heap used before costs nothing) until stop is set; then it lets go of them.
 func warmMemory(n int64, stop *atomic.Bool) {
 	var held [][]byte // held until the end, so that each block takes new pages
 	for done := int64(0); done < n && !stop.Load(); done += warmBlock {
