@@ -389,14 +389,7 @@ func TestStopConformance(t *testing.T) { // and the forecast
 	html := builtPage(t)
 	big := generatedCSV(t, synth.Config{Seed: 4, Events: 150_000, Noise: 0.1, Shifts: true}, synth.ByTime)
 	ctx, rl := browser(t)
-	require.NoError(t, chromedp.Do(ctx,
-		chromedp.Navigate("file://"+html),
-		chromedp.WaitVisible(chromedp.CSS(`body[data-engine="ready"]`)),
-		chromedp.SetUploadFiles(chromedp.CSS(`#file-input`), []string{big}),
-		chromedp.WaitVisible(chromedp.CSS(`#mapping`)),
-		chromedp.Click(chromedp.CSS(`#read-button`)),
-		chromedp.WaitVisible(chromedp.CSS(`#overview[data-ready="true"]`)),
-	))
+	require.NoError(t, chromedp.Do(ctx, openCSV(html, big)))
 	// from all paths, the discovered model is loose enough for the check to take seconds
 	_, err := chromedp.Run(ctx, chromedp.Evaluate[chromedp.Void](`document.getElementById('md-variants').value = 100`))
 	require.NoError(t, err)
@@ -552,12 +545,7 @@ func TestForecastListPages(t *testing.T) {
 		return n
 	}
 	require.NoError(t, chromedp.Do(ctx,
-		chromedp.Navigate("file://"+html),
-		chromedp.WaitVisible(chromedp.CSS(`body[data-engine="ready"]`)),
-		chromedp.SetUploadFiles(chromedp.CSS(`#file-input`), []string{csv}),
-		chromedp.WaitVisible(chromedp.CSS(`#mapping`)),
-		chromedp.Click(chromedp.CSS(`#read-button`)),
-		chromedp.WaitVisible(chromedp.CSS(`#overview[data-ready="true"]`)),
+		openCSV(html, csv),
 		chromedp.Click(chromedp.CSS(`#views [data-view="forecast"]`)),
 		chromedp.WaitVisible(chromedp.CSS(`#forecast[data-ready="true"] #fc-list tbody tr`)),
 	))
@@ -653,6 +641,18 @@ func TestConformanceView(t *testing.T) {
 	assert.Contains(t, notes, "Activities the model does not know")
 	assert.Empty(t, rl.outgoing("file://"+html))
 	assert.Empty(t, rl.failures)
+}
+
+// openCSV opens the page from file:// and reads a CSV file through the column step, as guessed.
+func openCSV(html, csv string) chromedp.Action[chromedp.Void] {
+	return chromedp.Steps(
+		chromedp.Navigate("file://"+html),
+		chromedp.WaitVisible(chromedp.CSS(`body[data-engine="ready"]`)),
+		chromedp.SetUploadFiles(chromedp.CSS(`#file-input`), []string{csv}),
+		chromedp.WaitVisible(chromedp.CSS(`#mapping`)),
+		chromedp.Click(chromedp.CSS(`#read-button`)),
+		chromedp.WaitVisible(chromedp.CSS(`#overview[data-ready="true"]`)),
+	)
 }
 
 // openDemo opens the page from disk and reads the embedded demo log to its overview.
