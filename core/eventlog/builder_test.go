@@ -114,6 +114,15 @@ func TestVariants(t *testing.T) {
 	assert.Equal(t, []int32{1, 0, 0}, l.CaseVariant)
 }
 
+// eventKinds maps each event attribute of l to the kind it was typed as.
+func eventKinds(l *Log) map[string]Kind {
+	kinds := map[string]Kind{}
+	for _, c := range l.EventAttrs {
+		kinds[c.Key] = c.Kind
+	}
+	return kinds
+}
+
 // TestDecimalComma: numbers written with a decimal comma, as spreadsheets in much of Europe
 // export them, are numbers; a column whose every comma is followed by three digits could be
 // thousands and stays text, as do codes with a leading zero (common practice of such exports).
@@ -125,10 +134,7 @@ func TestDecimalComma(t *testing.T) {
 		"code":      {"01,5", "2,5", "3", "4"},
 		"mixed":     {"1.5", "2,5", "3", "4"},
 	})
-	kinds := map[string]Kind{}
-	for _, c := range l.EventAttrs {
-		kinds[c.Key] = c.Kind
-	}
+	kinds := eventKinds(l)
 	assert.Equal(t, map[string]Kind{"cost": KindNumber, "thousands": KindString, "code": KindString, "mixed": KindString}, kinds)
 	assert.Equal(t, []float64{12.5, 3, -0.25, 1.25}, l.EventAttr("cost").Num)
 	txt, _ := l.EventAttr("cost").Text(0)
@@ -145,10 +151,7 @@ func TestAttributeTyping(t *testing.T) {
 		"region":  {"north", "north", "south", "south"},
 		"comment": {"x", "", "y", "z"},
 	})
-	kinds := map[string]Kind{}
-	for _, c := range l.EventAttrs {
-		kinds[c.Key] = c.Kind
-	}
+	kinds := eventKinds(l)
 	assert.Equal(t, map[string]Kind{"amount": KindNumber, "code": KindString, "urgent": KindBool,
 		"due": KindTime, "comment": KindString}, kinds)
 	region := l.CaseAttr("region")
