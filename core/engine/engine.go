@@ -681,24 +681,18 @@ func (e *Engine) forecast(ctx context.Context, req Request, emit func(Response))
 	if err != nil {
 		return nil, err
 	}
-	search := predict.Search{States: o.Abstraction == "auto", Attribute: o.Attribute == "auto"}
-	auto := search.States || search.Attribute
-	var a predict.Abstraction
-	if !search.States {
-		if a, err = predict.ParseAbstraction(o.Abstraction); err != nil {
-			return nil, err
-		}
+	cfg, search, err := predict.ParseSettings(o.Abstraction, o.Horizon, o.Attribute)
+	if err != nil {
+		return nil, err
 	}
+	auto := search.States || search.Attribute
 	if o.Horizon < 0 {
 		return nil, errors.New("the horizon is 0 (the whole prefix) or more")
 	}
-	attr := o.Attribute
-	if search.Attribute {
-		attr = ""
-	} else if attr != "" && l.CaseAttr(attr) == nil {
-		return nil, fmt.Errorf("the log has no case attribute %q", attr)
+	if cfg.Attribute != "" && l.CaseAttr(cfg.Attribute) == nil {
+		return nil, fmt.Errorf("the log has no case attribute %q", cfg.Attribute)
 	}
-	opt := predict.Options{Config: predict.Config{Abstraction: a, Horizon: o.Horizon, Attribute: attr}}
+	opt := predict.Options{Config: cfg}
 	if len(o.End) > 0 {
 		opt.EndActivities = o.End
 	}

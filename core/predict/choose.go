@@ -29,6 +29,25 @@ type Search struct {
 	Attribute bool `json:"attribute"` // the case attribute that refines the states, or none
 }
 
+// ParseSettings reads the state settings as the page and the command line give them: an
+// abstraction's name or "auto", the horizon, and a case attribute's name, "" for none or "auto".
+// What is "auto" is left to Choose: the returned Config has the zero value there.
+func ParseSettings(abstraction string, horizon int, attribute string) (Config, Search, error) {
+	s := Search{States: abstraction == "auto", Attribute: attribute == "auto"}
+	cfg := Config{Horizon: horizon, Attribute: attribute}
+	if s.Attribute {
+		cfg.Attribute = ""
+	}
+	if !s.States {
+		a, err := ParseAbstraction(abstraction)
+		if err != nil {
+			return cfg, s, err
+		}
+		cfg.Abstraction = a
+	}
+	return cfg, s, nil
+}
+
 // Models is how many models Choose fits on l for the search: what a progress bar counts.
 func (s Search) Models(l *eventlog.Log) int {
 	n := 0

@@ -202,3 +202,24 @@ func TestSample(t *testing.T) {
 	assert.Equal(t, p.Abandoned, s.Abandoned)
 	assert.Equal(t, p.Completed, p.Sample(10).Completed, "no more than asked: kept whole")
 }
+
+// TestParseSettings: "auto" leaves the abstraction or the attribute to Choose; a name is taken.
+func TestParseSettings(t *testing.T) {
+	for _, tc := range []struct {
+		abs, attr string
+		cfg       Config
+		search    Search
+	}{
+		{"multiset", "", Config{Abstraction: Multiset, Horizon: 2}, Search{}},
+		{"set", "region", Config{Abstraction: Set, Horizon: 2, Attribute: "region"}, Search{}},
+		{"auto", "auto", Config{Horizon: 2}, Search{States: true, Attribute: true}},
+		{"sequence", "auto", Config{Abstraction: Sequence, Horizon: 2}, Search{Attribute: true}},
+	} {
+		cfg, s, err := ParseSettings(tc.abs, 2, tc.attr)
+		require.NoError(t, err)
+		assert.Equal(t, tc.cfg, cfg, "%s/%s", tc.abs, tc.attr)
+		assert.Equal(t, tc.search, s, "%s/%s", tc.abs, tc.attr)
+	}
+	_, _, err := ParseSettings("tree", 0, "")
+	assert.Error(t, err)
+}

@@ -46,21 +46,14 @@ func predictCommand(ctx context.Context, args []string, stdout io.Writer) error 
 	if perr != nil {
 		return perr
 	}
-	search := predict.Search{States: *abs == "auto", Attribute: *attr == "auto"}
-	if search.Attribute {
-		*attr = ""
-	}
-	var a predict.Abstraction
-	var err error
-	if !search.States {
-		if a, err = predict.ParseAbstraction(*abs); err != nil {
-			return &usageError{err.Error()}
-		}
+	cfg, search, err := predict.ParseSettings(*abs, *horizon, *attr)
+	if err != nil {
+		return &usageError{err.Error()}
 	}
 	if *horizon < 0 {
 		return &usageError{"--horizon is 0 (all) or more"}
 	}
-	opt := predict.Options{Config: predict.Config{Abstraction: a, Horizon: *horizon, Attribute: *attr}, Inactive: *inactive}
+	opt := predict.Options{Config: cfg, Inactive: *inactive}
 	if *outcome != "" {
 		if opt.Outcome, err = predict.ParseOutcome(*outcome); err != nil {
 			return &usageError{err.Error()}
@@ -79,13 +72,13 @@ func predictCommand(ctx context.Context, args []string, stdout io.Writer) error 
 		if opt.Config, choices, err = predict.Choose(l, part, opt, search); err != nil {
 			return err
 		}
-		a, *horizon = opt.Config.Abstraction, opt.Config.Horizon
 	}
 	ev, err := predict.Evaluate(l, part, opt)
 	if err != nil {
 		return err
 	}
-	out := predictOutput{Evaluation: ev, Abstraction: a, Horizon: *horizon, EndActivities: part.EndActivities,
+	a, h := opt.Config.Abstraction, opt.Config.Horizon
+	out := predictOutput{Evaluation: ev, Abstraction: a, Horizon: h, EndActivities: part.EndActivities,
 		Attribute: opt.Config.Attribute, InactiveDays: part.Inactive.Hours() / 24, Completed: len(part.Completed), Abandoned: len(part.Abandoned), Caution: caution, Choices: choices}
 	if opt.Outcome != nil {
 		out.Outcome = opt.Outcome.String()
@@ -108,7 +101,7 @@ func predictCommand(ctx context.Context, args []string, stdout io.Writer) error 
 	if opt.Config.Attribute != "" {
 		apart = ", cases told apart by " + opt.Config.Attribute
 	}
-	fmt.Fprintf(stdout, "states: %s over %s%s; %d completed, %d running, %d abandoned cases\n", a, horizonText(*horizon), apart, len(part.Completed), len(part.Running), len(part.Abandoned))
+	fmt.Fprintf(stdout, "states: %s over %s%s; %d completed, %d running, %d abandoned cases\n", a, horizonText(h), apart, len(part.Completed), len(part.Running), len(part.Abandoned))
 	fmt.Fprintf(stdout, "error on past cases (cut dates %s; tested on %d prefixes of %d cases open then):\n", strings.Join(ev.Cuts, ", "), ev.TestPrefixes, ev.TestCases)
 	fmt.Fprintf(stdout, "  remaining time: %.2f days off on average (%.2fx the mean by number of events, %.2f days; 95%% range of the ratio %.2f-%.2f)\n", ev.MAEDays, ev.Ratio, ev.BaselineDays, ev.RatioRange[0], ev.RatioRange[1])
 	fmt.Fprintf(stdout, "  the %.0f%% interval held the truth for %.1f%% of prefixes (95%% range %.1f-%.1f%%); next activity right %.1f%%\n", ev.Level*100, ev.Coverage*100, ev.CoverageRange[0]*100, ev.CoverageRange[1]*100, ev.NextAccuracy*100)
