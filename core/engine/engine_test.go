@@ -3,18 +3,19 @@ package engine
 import (
 	"context"
 	"encoding/json"
+	"fmt"
 	"io"
 	"os"
 	"slices"
 	"strings"
 	"testing"
 	"time"
-	"tracewright/core/predict"
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 
 	"tracewright/core/intake"
+	"tracewright/core/predict"
 )
 
 func req(kind string, id int, payload string) Request {
@@ -347,4 +348,25 @@ func mustJSON(t *testing.T, v any) []byte {
 	b, err := json.Marshal(v)
 	require.NoError(t, err)
 	return b
+}
+
+// TestLoadProgressThrottled: a load reports progress at its start and then at most once every
+// progressEvery, however often the reader reports (every megabyte): the page redraws for each
+// message.
+func TestLoadProgressThrottled(t *testing.T) {
+	var sb strings.Builder
+	sb.WriteString("case,activity,time\n")
+	for i := range 150_000 {
+		fmt.Fprintf(&sb, "case-%06d,step %d,2025-03-%02d 10:%02d:00\n", i/5, i%5, 1+i%28, i%60)
+	}
+	var progress []intake.Progress
+	start := time.Now()
+	r := New().Handle(context.Background(), req("load", 1, ""), fileOf("big.csv", sb.String()), func(p Response) {
+		progress = append(progress, p.Payload.(intake.Progress))
+	})
+	elapsed := time.Since(start)
+	require.Equal(t, "result", r.Kind, "%v", r.Payload)
+	require.Greater(t, sb.Len(), 4<<20, "the reader reports every megabyte")
+	require.NotEmpty(t, progress)
+	assert.LessOrEqual(t, len(progress), 1+int(elapsed/progressEvery))
 }
