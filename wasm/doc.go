@@ -13,7 +13,9 @@
 // keeps every JS value it was handed alive until its collector runs, and its heap grows slowly,
 // so without care the worker held the whole file; a collection every 64 MB read keeps it flat.
 //
-// Memory touched for the first time costs a page fault, and a module's memory never shrinks: after
-// a sniff, while the user checks the columns, the host touches about as much memory as the load
-// will need (warmMemory), and the load reuses those pages.
+// After a sniff, while the user checks the columns, the host reads a file of up to 256 MB into
+// memory (readAhead), so that the load parses from memory without reading the file beside it, and
+// then touches about as much memory as the load will need (warmMemory): memory touched for the
+// first time costs a page fault, and a module's memory never shrinks, so the load reuses those
+// pages. A load that comes first takes over what has been read and reads on.
 package main

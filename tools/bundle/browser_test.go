@@ -381,6 +381,48 @@ func TestProgressAndCancel(t *testing.T) {
 	assert.Empty(t, rl.failures)
 }
 
+// TestReadAhead reads a log large enough (over 16 MB) that the engine reads the file into memory
+// while the columns are shown (wasm/main.go, readAhead): Read at once, when only its start is in
+// memory and the load reads on from there, and Read after a pause, when all of it may be. Both
+// must give the command-line tool's figures for the same file, as must a small file dropped
+// after the large one was partly read ahead.
+func TestReadAhead(t *testing.T) {
+	html := builtPage(t)
+	big := generatedCSV(t, synth.Config{Seed: 6, Events: 300_000, Shifts: true}, synth.Shuffled)
+	fi, err := os.Stat(big)
+	require.NoError(t, err)
+	require.Greater(t, fi.Size(), int64(16<<20), "the engine reads ahead from 16 MB")
+	small, _ := filepath.Abs("../../testdata/workshop.csv")
+	want, wantSmall := cliInspect(t, big), cliInspect(t, small)
+	ctx, rl := browser(t)
+	require.NoError(t, chromedp.Do(ctx, chromedp.Navigate("file://"+html), chromedp.WaitVisible(chromedp.CSS(`body[data-engine="ready"]`))))
+	read := func(file string, pause time.Duration, want map[string]any) {
+		require.NoError(t, chromedp.Do(ctx,
+			chromedp.SetUploadFiles(chromedp.CSS(`#file-input`), []string{file}),
+			chromedp.WaitVisible(chromedp.CSS(`#mapping`)),
+			chromedp.Sleep(pause),
+			chromedp.Click(chromedp.CSS(`#read-button`)),
+			quietWait(`#overview[data-ready="true"]`),
+		))
+		got := metrics(t, ctx)
+		for _, k := range []string{"cases", "events", "activities", "variants"} {
+			assert.Equal(t, fmt.Sprint(want[k]), got[k], "%s after a pause of %v", k, pause)
+		}
+		require.NoError(t, chromedp.Do(ctx, chromedp.Click(chromedp.CSS(`#again-button`)), chromedp.WaitVisible(chromedp.CSS(`#start`))))
+	}
+	read(big, 0, want)
+	read(big, 3*time.Second, want)
+	// the large file dropped and left while it is read ahead, then a small one read
+	require.NoError(t, chromedp.Do(ctx,
+		chromedp.SetUploadFiles(chromedp.CSS(`#file-input`), []string{big}),
+		chromedp.WaitVisible(chromedp.CSS(`#mapping`)),
+		chromedp.Click(chromedp.CSS(`#back-button`)),
+		chromedp.WaitVisible(chromedp.CSS(`#start`)),
+	))
+	read(small, 0, wantSmall)
+	assert.Empty(t, rl.failures)
+}
+
 // TestStopConformance checks a generated log of 150k events (10% of cases with noise, some
 // hundreds of paths) against its model, waits for the progress count, and stops the check: the
 // engine takes the stop between two paths, since it yields to the worker's event loop while it
