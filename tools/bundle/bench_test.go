@@ -124,7 +124,8 @@ func BenchmarkPage(b *testing.B) {
 		b.Logf("events %s, file %d MB, browser RSS %d MB before and %d MB at peak", got["events"], buf.Len()>>20, base>>20, peak>>20)
 
 		// a first read as a user makes it: the page left to settle, the file dropped, a look at
-		// the columns (during which the engine makes memory ready; wasm/main.go), then Read
+		// the columns (during which the engine reads the file and makes memory ready; wasm/main.go),
+		// then Read
 		ctx2, _ := browser(b)
 		if err := chromedp.Do(ctx2, chromedp.Navigate("file://"+html), chromedp.WaitVisible(chromedp.CSS(`body[data-engine="ready"]`)),
 			chromedp.Sleep(2*time.Second), chromedp.SetUploadFiles(chromedp.CSS(`#file-input`), []string{csv}),
