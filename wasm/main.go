@@ -47,7 +47,7 @@ func main() {
 type host struct {
 	engine  *engine.Engine
 	self    js.Value
-	warming *warmer // the one running, if any
+	warming *warmer // the one running, or the last one, until the next message takes it
 }
 
 // warmer is what the host does between a sniff and the load that follows: it reads the file into
@@ -75,7 +75,8 @@ func (h *host) stopWarming() *warmer {
 }
 
 // handle runs one request on its own goroutine, so that a cancel can arrive during a load. It
-// first waits for the warmer w, if any, to let go of its blocks, so that a load can collect them.
+// first waits for the warmer w, if any, to let go of its blocks, so that a load can collect them;
+// a request for the file w read ahead reads w's bytes first and then reads on with w's reader.
 func (h *host) handle(msg js.Value, w *warmer) {
 	if w != nil {
 		<-w.done
