@@ -350,9 +350,9 @@ func mustJSON(t *testing.T, v any) []byte {
 	return b
 }
 
-// TestLoadProgressThrottled: a load reports progress at its start and then at most once every
-// progressEvery, however often the reader reports (every megabyte): the page redraws for each
-// message.
+// TestLoadProgressThrottled: a load passes on the reader's first progress report at once and
+// then at most one every progressEvery, however often the reader reports (every megabyte): the
+// page redraws for each message.
 func TestLoadProgressThrottled(t *testing.T) {
 	var sb strings.Builder
 	sb.WriteString("case,activity,time\n")
