@@ -88,7 +88,8 @@ func (h *host) handle(msg js.Value, w *warmer) {
 	}
 	var file *engine.File
 	var fr *fileReader
-	if f := msg.Get("file"); f.Truthy() {
+	f := msg.Get("file")
+	if f.Truthy() {
 		file = &engine.File{Name: f.Get("name").String(), Size: int64(f.Get("size").Float())}
 		if w != nil && w.n > 0 && sameFile(w.file, f) {
 			// the start of the file, or all of it, was read while the user checked the columns
@@ -125,7 +126,6 @@ func (h *host) handle(msg js.Value, w *warmer) {
 	}
 	post(resp)
 	if sr, ok := resp.Payload.(*engine.SniffResult); ok && file != nil && file.Size >= warmMin && h.warming == nil {
-		f := msg.Get("file")
 		w := &warmer{done: make(chan struct{}), file: f}
 		h.warming = w
 		if file.Size <= readAheadMax {
