@@ -261,7 +261,8 @@ func BenchmarkTimeParse(b *testing.B) {
 }
 
 // TestISOFastPathAgrees checks the fixed-offset reader against the general matcher on many
-// values, valid and not.
+// values, valid and not, and against the standard library's time.Date on every 13th day and
+// every day around a year's turn, from the year 0 to 9999.
 func TestISOFastPathAgrees(t *testing.T) {
 	f, _ := ParseFormat("YYYY-MM-DD hh:mm[:ss[.f]][Z]")
 	slow := &Format{layout: f.layout, items: f.items}
@@ -271,5 +272,15 @@ func TestISOFastPathAgrees(t *testing.T) {
 		b, okB := slow.ParseString(s)
 		assert.Equal(t, okB, okA, s)
 		assert.Equal(t, b, a, s)
+	}
+	end := time.Date(10000, 1, 1, 0, 0, 0, 0, time.UTC)
+	for d := time.Date(0, 1, 1, 23, 59, 58, 0, time.UTC); d.Before(end); d = d.AddDate(0, 0, 13) {
+		for _, day := range []time.Time{d, time.Date(d.Year(), 12, 31, 12, 0, 1, 0, time.UTC), time.Date(d.Year(), 1, 1, 0, 0, 0, 0, time.UTC), time.Date(d.Year(), 3, 1, 7, 8, 9, 0, time.UTC)} {
+			s := day.Format("2006-01-02 15:04:05")
+			got, ok := parseISOSeconds([]byte(s), ' ')
+			if !ok || got != day.UnixMicro() {
+				t.Fatalf("%s: %d %v, want %d", s, got, ok, day.UnixMicro())
+			}
+		}
 	}
 }
