@@ -74,19 +74,38 @@ func (b *Builder) Grow(n int) {
 // Case interns a case id.
 func (b *Builder) Case(id []byte) int32 { return b.log.Cases.InternBytes(id) }
 
-// SetEventValues sets column col of events first[i]..last[i] to keys[i] for every i, interning
-// the keys in one batch (see Dict.InternBatch). hashes and ids are scratch of len(keys).
-func (b *Builder) SetEventValues(col int, first, last []int, keys [][]byte, hashes []uint64, ids []int32) {
+// Batch is one column's values from a run of rows, packed as a reader gathers them: value i is
+// Text[Ends[i-1]:Ends[i]] (the first from 0) and belongs to row Rows[i], whose events are
+// First[r]..Last[r] for r = Rows[i] (indexes that Add returned). A row without a value has no
+// entry.
+type Batch struct {
+	Text        []byte
+	Ends, Rows  []int
+	First, Last []int
+}
+
+// SetEventValues sets column col of each value's events to the value, interning the values in
+// one batch (see Dict.InternBatch). hashes and ids are scratch of len(v.Ends).
+func (b *Builder) SetEventValues(col int, v *Batch, hashes []uint64, ids []int32) {
 	c := b.evCols[col]
-	c.dict.InternBatch(keys, hashes, ids)
-	for i, id := range ids {
-		for ev := first[i]; ev <= last[i]; ev++ {
-			for len(c.ids) <= ev {
-				c.ids = append(c.ids, -1)
-			}
-			c.ids[ev] = id
+	c.dict.InternBatch(v.Text, v.Ends, hashes, ids)
+	c.ids = setIDs(c.ids, v, ids)
+}
+
+// setIDs sets dst[ev] = ids[i] for the events of value i, growing dst with -1 (no value). It
+// grows dst once per value, not once per event, so that the loop over the events only stores.
+func setIDs(dst []int32, v *Batch, ids []int32) []int32 {
+	for i, id := range ids[:len(v.Ends)] {
+		r := v.Rows[i]
+		first, last := v.First[r], v.Last[r]
+		for len(dst) <= last {
+			dst = append(dst, -1)
+		}
+		for ev := first; ev <= last; ev++ {
+			dst[ev] = id
 		}
 	}
+	return dst
 }
 
 // CaseSink lets another goroutine intern case ids and set attribute values while the reader
@@ -104,22 +123,15 @@ func (b *Builder) NewCaseSink() *CaseSink {
 	return &CaseSink{b: b, cases: make([]int32, 0, cap(b.evCase))}
 }
 
-// SetCases interns keys[i] (see Dict.InternBatch) as the case of events first[i]..last[i].
-func (s *CaseSink) SetCases(first, last []int, keys [][]byte, hashes []uint64, ids []int32) {
-	s.b.log.Cases.InternBatch(keys, hashes, ids)
-	for i, id := range ids {
-		for ev := first[i]; ev <= last[i]; ev++ {
-			for len(s.cases) <= ev {
-				s.cases = append(s.cases, -1)
-			}
-			s.cases[ev] = id
-		}
-	}
+// SetCases interns the batch's values (see Dict.InternBatch) as the cases of their events.
+func (s *CaseSink) SetCases(v *Batch, hashes []uint64, ids []int32) {
+	s.b.log.Cases.InternBatch(v.Text, v.Ends, hashes, ids)
+	s.cases = setIDs(s.cases, v, ids)
 }
 
 // SetEventValues is Builder.SetEventValues through the sink.
-func (s *CaseSink) SetEventValues(col int, first, last []int, keys [][]byte, hashes []uint64, ids []int32) {
-	s.b.SetEventValues(col, first, last, keys, hashes, ids)
+func (s *CaseSink) SetEventValues(col int, v *Batch, hashes []uint64, ids []int32) {
+	s.b.SetEventValues(col, v, hashes, ids)
 }
 
 // Close copies the sink's cases into the events; the reader's goroutine calls it once the sink's
@@ -264,16 +276,19 @@ func (b *Builder) Build(opt BuildOptions) (*Log, error) {
 		next[c]++
 	}
 	next = nil
+	evCase := b.evCase // kept for constantPerCase
 	b.evCase = nil
 
-	// Order each case by time. An event without a timestamp sorts with the one before it.
+	// Order each case by time. An event without a timestamp sorts with the one before it. The
+	// times are laid out in case order first, so that each case's are read side by side, not
+	// picked from the whole column, and sorted along with the case's events.
+	times := permute(b.time, perm)
 	var keys []int64
 	for c := 0; c < nc; c++ {
-		seg := perm[start[c]:start[c+1]]
+		seg, ts := perm[start[c]:start[c+1]], times[start[c]:start[c+1]]
 		sorted := true
 		last := NoTime
-		for _, e := range seg {
-			t := b.time[e]
+		for _, t := range ts {
 			if t == NoTime {
 				continue
 			}
@@ -286,32 +301,47 @@ func (b *Builder) Build(opt BuildOptions) (*Log, error) {
 		if sorted {
 			continue
 		}
-		keys = keys[:0]
-		k := NoTime
-		for _, e := range seg {
-			if t := b.time[e]; t != NoTime {
-				k = t
+		untimed := slices.Contains(ts, NoTime)
+		key := ts
+		if untimed {
+			keys = keys[:0]
+			k := NoTime
+			for _, t := range ts {
+				if t != NoTime {
+					k = t
+				}
+				keys = append(keys, k)
 			}
-			keys = append(keys, k)
+			key = keys
 		}
 		if len(seg) <= 32 {
 			// insertion sort: stable, and the fastest for the few events of a typical case
 			for i := 1; i < len(seg); i++ {
-				for j := i; j > 0 && keys[j] < keys[j-1]; j-- {
-					keys[j], keys[j-1] = keys[j-1], keys[j]
+				for j := i; j > 0 && key[j] < key[j-1]; j-- {
+					key[j], key[j-1] = key[j-1], key[j]
 					seg[j], seg[j-1] = seg[j-1], seg[j]
+					if untimed {
+						ts[j], ts[j-1] = ts[j-1], ts[j]
+					}
 				}
 			}
 		} else {
-			sort.Stable(byKey{seg, keys})
+			if !untimed {
+				key = append(keys[:0], ts...)
+				keys = key
+			}
+			sort.Stable(byKey{seg, key})
+			for i, e := range seg {
+				ts[i] = b.time[e]
+			}
 		}
 	}
 
 	l.CaseStart = start
-	// The columns are independent: permute them side by side (natively on all cores).
+	l.Time = times
+	// The other columns are independent: permute them side by side (natively on all cores).
 	var wg sync.WaitGroup
 	wg.Go(func() { l.Act = permute(b.act, perm) })
-	wg.Go(func() { l.Time = permute(b.time, perm) })
 	wg.Go(func() { l.Res = permute(b.res, perm) })
 	wg.Go(func() { l.Life = permute(b.life, perm) })
 	wg.Go(func() { l.Row = permute(b.row, perm) })
@@ -335,7 +365,7 @@ func (b *Builder) Build(opt BuildOptions) (*Log, error) {
 	for i, rc := range b.evCols {
 		wg.Go(func() {
 			if opt.LiftCaseAttributes {
-				if ids, ok := l.constantPerCase(rc, n, perm); ok {
+				if ids, ok := l.constantPerCase(rc, evCase); ok {
 					cc := &rawColumn{key: rc.key, level: CaseLevel, declared: rc.declared, mixed: rc.mixed, ids: ids, dict: rc.dict}
 					lifted[i] = cc.finish(nc, nil)
 					return
@@ -378,32 +408,36 @@ func permute[T any](src []T, perm []int32) []T {
 }
 
 // constantPerCase reports whether rc holds one value per case, and returns that value per case.
-func (l *Log) constantPerCase(rc *rawColumn, n int, perm []int32) ([]int32, bool) {
-	nc := l.NumCases()
-	multi := false
-	ids := make([]int32, nc)
-	get := func(e int32) int32 {
-		if int(e) < len(rc.ids) {
-			return rc.ids[e]
-		}
-		return -1
+// It reads the events in the Builder's order, evCase giving each one's case: straight through
+// the column rather than case by case through the permutation, which would jump about the column
+// (in wasm that walk took five times as long as natively).
+func (l *Log) constantPerCase(rc *rawColumn, evCase []int32) ([]int32, bool) {
+	const unset = -2 // values are ids or -1 (none)
+	ids := make([]int32, l.NumCases())
+	for c := range ids {
+		ids[c] = unset
 	}
-	for c := 0; c < nc; c++ {
-		from, to := l.Events(c)
-		if to-from > 1 {
+	for e, c := range evCase {
+		v := int32(-1)
+		if e < len(rc.ids) {
+			v = rc.ids[e]
+		}
+		switch ids[c] {
+		case v:
+		case unset:
+			ids[c] = v
+		default:
+			return nil, false
+		}
+	}
+	multi := false
+	for c := range ids {
+		if ids[c] == unset {
+			ids[c] = -1 // a case without events
+		}
+		if l.CaseStart[c+1]-l.CaseStart[c] > 1 {
 			multi = true
 		}
-		if from == to {
-			ids[c] = -1
-			continue
-		}
-		v := get(perm[from])
-		for i := from + 1; i < to; i++ {
-			if get(perm[i]) != v {
-				return nil, false
-			}
-		}
-		ids[c] = v
 	}
 	return ids, multi
 }

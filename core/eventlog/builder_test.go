@@ -1,7 +1,10 @@
 package eventlog
 
 import (
+	"fmt"
 	"math"
+	"math/rand/v2"
+	"sort"
 	"testing"
 
 	"github.com/stretchr/testify/assert"
@@ -180,4 +183,59 @@ func TestDeclaredKindsThatLie(t *testing.T) {
 	require.NoError(t, err)
 	assert.Equal(t, KindString, l.EventAttr("n").Kind, "a value that is no number keeps the column as text")
 	assert.Equal(t, KindString, l.EventAttr("m").Kind, "mixed declarations keep the column as text")
+}
+
+// TestOrderAgainstStableSort checks the order within cases against the rule stated plainly: a
+// stable sort of each case's events, in file order, by their time, an event without one taking
+// the time of the event before it (reference: sort.SliceStable). Cases of 1 to 80 events cross
+// the switch from insertion sort to sort.Stable at 32; times repeat, and some are missing.
+func TestOrderAgainstStableSort(t *testing.T) {
+	r := rand.New(rand.NewPCG(11, 12))
+	type row struct {
+		c    string
+		t    int64
+		line int32
+	}
+	var rows []row
+	for c := range 60 {
+		for range 1 + r.IntN(80) {
+			tm := int64(r.IntN(20))
+			if r.IntN(6) == 0 {
+				tm = NoTime
+			}
+			rows = append(rows, row{c: fmt.Sprint(c), t: tm})
+		}
+	}
+	r.Shuffle(len(rows), func(i, j int) { rows[i], rows[j] = rows[j], rows[i] })
+	b := NewBuilder()
+	for i := range rows {
+		rows[i].line = int32(i + 2)
+		_, err := b.Add(Event{Case: b.Case([]byte(rows[i].c)), Activity: b.Activity([]byte("a")), Resource: -1, Time: rows[i].t, Row: rows[i].line})
+		require.NoError(t, err)
+	}
+	l, err := b.Build(BuildOptions{})
+	require.NoError(t, err)
+	for c := range l.NumCases() {
+		var want []row
+		for _, rw := range rows {
+			if rw.c == l.Cases.Name(int32(c)) {
+				want = append(want, rw)
+			}
+		}
+		keys := make(map[int32]int64)
+		k := NoTime
+		for _, rw := range want {
+			if rw.t != NoTime {
+				k = rw.t
+			}
+			keys[rw.line] = k
+		}
+		sort.SliceStable(want, func(i, j int) bool { return keys[want[i].line] < keys[want[j].line] })
+		from, to := l.Events(c)
+		require.Equal(t, len(want), to-from)
+		for i, rw := range want {
+			assert.Equal(t, rw.line, l.Row[from+i], "case %d event %d", c, i)
+			assert.Equal(t, rw.t, l.Time[from+i], "case %d event %d", c, i)
+		}
+	}
 }

@@ -51,22 +51,22 @@ func (d *Dict) Intern(s string) int32 {
 // InternBytes is Intern for a byte slice; b is copied only when it is new, so b may be a
 // reader's reusable buffer.
 func (d *Dict) InternBytes(b []byte) int32 {
-	return d.intern(b, hash(d.seed, b))
+	return d.intern(b, hash(d.seed, b), true)
 }
 
-// InternBatch interns keys[i] into out[i], in order, exactly as InternBytes one by one would.
+// InternBatch interns a batch of packed keys, key i being text[ends[i-1]:ends[i]] (the first from
+// 0), into out[i], in order, exactly as InternBytes one by one would; hashes is scratch. The keys
+// come packed, as a reader gathers a column's values, so that handing them over builds no slice
+// per key. It panics if an end lies before the one before it or past the text.
 //
 // It exists for speed on large tables: it first hashes every key, then probes, so that the
 // probes of different keys (each a likely cache miss in a table of 100k cases) are independent
 // instructions close together, which the processor overlaps; interleaved with the rest of a
-// row's work they wait one after the other.
-func (d *Dict) InternBatch(keys [][]byte, hashes []uint64, out []int32) {
-	for i, k := range keys {
-		hashes[i] = hash(d.seed, k)
-	}
-	for i, k := range keys {
-		out[i] = d.intern(k, hashes[i])
-	}
+// row's work they wait one after the other. In wasm both passes are hand-written WebAssembly
+// (dict_wasm.s): Go's wasm code sends every turn of a loop through a dispatch at the head of its
+// function, and the two passes are nearly all loop.
+func (d *Dict) InternBatch(text []byte, ends []int, hashes []uint64, out []int32) {
+	d.internBatch(text, ends, hashes[:len(ends)], out[:len(ends)])
 }
 
 // metaOf is a slot's meta without the id, for the key b of hash h.
@@ -76,32 +76,35 @@ func metaOf(h uint64, b []byte) uint64 {
 
 const idMask = 1<<32 - 1
 
-// prefix returns the first 16 bytes of b as two little-endian words, zero beyond b's end.
-func prefix(b []byte) (k0, k1 uint64) {
+// intern finds b, whose hash is h, by linear probing, and adds it if add is set; else it
+// returns -1 for a key it does not hold.
+//
+// A slot holds the key's first 16 bytes as two little-endian words, zero beyond its end. They
+// are loaded in overlapping pieces, not byte by byte: in Go's wasm code every turn of a loop is a
+// jump through the function's dispatch, and this code runs for every activity and resource read.
+func (d *Dict) intern(b []byte, h uint64, add bool) int32 {
+	want := metaOf(h, b)
+	var k0, k1 uint64
 	switch n := len(b); {
 	case n >= 16:
-		return binary.LittleEndian.Uint64(b), binary.LittleEndian.Uint64(b[8:])
+		k0, k1 = binary.LittleEndian.Uint64(b), binary.LittleEndian.Uint64(b[8:])
 	case n > 8:
 		// the last eight bytes, shifted so that the ones before b[8] fall off
-		return binary.LittleEndian.Uint64(b), binary.LittleEndian.Uint64(b[n-8:]) >> (8 * (16 - n))
+		k0, k1 = binary.LittleEndian.Uint64(b), binary.LittleEndian.Uint64(b[n-8:])>>(8*(16-n))
 	case n == 8:
-		return binary.LittleEndian.Uint64(b), 0
-	default:
-		for i, c := range b {
-			k0 |= uint64(c) << (8 * i)
-		}
-		return k0, 0
+		k0 = binary.LittleEndian.Uint64(b)
+	case n >= 4:
+		k0 = uint64(binary.LittleEndian.Uint32(b)) | uint64(binary.LittleEndian.Uint32(b[n-4:]))<<(8*(n-4))
+	case n > 0:
+		k0 = uint64(b[0]) | uint64(b[n>>1])<<(8*(n>>1)) | uint64(b[n-1])<<(8*(n-1))
 	}
-}
-
-// intern finds or adds b, whose hash is h, by linear probing.
-func (d *Dict) intern(b []byte, h uint64) int32 {
-	want := metaOf(h, b)
-	k0, k1 := prefix(b)
 	mask := uint64(len(d.slots) - 1)
 	for i := h & mask; ; i = (i + 1) & mask {
 		s := &d.slots[i]
 		if s.meta == 0 {
+			if !add {
+				return -1
+			}
 			id := int32(len(d.names))
 			d.names = append(d.names, d.store(b))
 			*s = slot{meta: want | uint64(id+1), k0: k0, k1: k1}
@@ -122,10 +125,10 @@ func (d *Dict) intern(b []byte, h uint64) int32 {
 }
 
 // hash mixes eight bytes at a time with one multiplication, then finishes with the 64-bit
-// finaliser of MurmurHash3 (Appleby). It replaced hash/maphash: in wasm, maphash runs the
-// runtime's portable fallback, and hashing took a third of the intake's time there; natively the
-// two are within noise for the short keys of event logs. The seed is random per dictionary, so a
-// crafted file cannot count on collisions; ids do not depend on it.
+// finaliser of MurmurHash3 (Appleby); dict_wasm.s computes the same. It replaced hash/maphash:
+// in wasm, maphash runs the runtime's portable fallback, and hashing took a third of the intake's
+// time there; natively the two are within noise for the short keys of event logs. The seed is
+// random per dictionary, so a crafted file cannot count on collisions; ids do not depend on it.
 func hash(seed uint64, b []byte) uint64 {
 	h := seed ^ uint64(len(b))*0x9e3779b97f4a7c15
 	for len(b) >= 8 {
@@ -133,11 +136,12 @@ func hash(seed uint64, b []byte) uint64 {
 		h = bits.RotateLeft64(h, 31)
 		b = b[8:]
 	}
-	if len(b) > 0 {
-		var t uint64
-		for i, c := range b {
-			t |= uint64(c) << (8 * i)
-		}
+	// the last bytes, loaded as intern loads a short key
+	if n := len(b); n >= 4 {
+		t := uint64(binary.LittleEndian.Uint32(b)) | uint64(binary.LittleEndian.Uint32(b[n-4:]))<<(8*(n-4))
+		h = (h ^ t) * 0x94d049bb133111eb
+	} else if n > 0 {
+		t := uint64(b[0]) | uint64(b[n>>1])<<(8*(n>>1)) | uint64(b[n-1])<<(8*(n-1))
 		h = (h ^ t) * 0x94d049bb133111eb
 	}
 	h ^= h >> 33
@@ -208,22 +212,8 @@ func (d *Dict) grow() {
 // Lookup returns the id of s and whether s is known.
 func (d *Dict) Lookup(s string) (int32, bool) {
 	b := unsafe.Slice(unsafe.StringData(s), len(s))
-	h := hash(d.seed, b)
-	want := metaOf(h, b)
-	k0, k1 := prefix(b)
-	mask := uint64(len(d.slots) - 1)
-	for i := h & mask; ; i = (i + 1) & mask {
-		sl := &d.slots[i]
-		if sl.meta == 0 {
-			return -1, false
-		}
-		if sl.meta&^idMask == want && sl.k0 == k0 && sl.k1 == k1 {
-			id := int32(uint32(sl.meta)) - 1
-			if len(b) <= 16 || d.names[id] == s {
-				return id, true
-			}
-		}
-	}
+	id := d.intern(b, hash(d.seed, b), false)
+	return id, id >= 0
 }
 
 // Name returns the string of id. It panics on an id the dictionary never issued: ids come from

@@ -16,5 +16,6 @@
 //
 // Cost of Build: O(n) for the grouping (a counting sort over case ids), O(n log k) for the
 // ordering of cases whose events are out of time order (k events per case), O(n) for instances
-// and variants; peak extra memory is one int32 permutation plus one column at a time.
+// and variants; peak extra memory is two int32 columns (the permutation and each event's case,
+// kept for lifting attributes to cases) plus the columns being laid out in the new order.
 package eventlog

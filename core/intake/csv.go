@@ -440,8 +440,6 @@ type batchColumn struct {
 	text        []byte
 	ends        []int
 	rows        []int
-	keys        [][]byte
-	first, last []int
 }
 
 func newRowBatch(n, caseCol int, attrCols []int) *rowBatch {
@@ -518,19 +516,12 @@ func (p *batchPipe) close() {
 func (rb *rowBatch) flush(b *eventlog.CaseSink) {
 	for k := range rb.cols {
 		c := &rb.cols[k]
-		c.keys, c.first, c.last = c.keys[:0], c.first[:0], c.last[:0]
-		start := 0
-		for i, e := range c.ends {
-			c.keys = append(c.keys, c.text[start:e])
-			c.first = append(c.first, rb.first[c.rows[i]])
-			c.last = append(c.last, rb.last[c.rows[i]])
-			start = e
-		}
-		m := len(c.keys)
+		v := eventlog.Batch{Text: c.text, Ends: c.ends, Rows: c.rows, First: rb.first, Last: rb.last}
+		m := len(c.ends)
 		if k == 0 {
-			b.SetCases(c.first, c.last, c.keys, rb.hashes[:m], rb.ids[:m])
+			b.SetCases(&v, rb.hashes[:m], rb.ids[:m])
 		} else {
-			b.SetEventValues(c.handle, c.first, c.last, c.keys, rb.hashes[:m], rb.ids[:m])
+			b.SetEventValues(c.handle, &v, rb.hashes[:m], rb.ids[:m])
 		}
 		c.text, c.ends, c.rows = c.text[:0], c.ends[:0], c.rows[:0]
 	}

@@ -10,9 +10,10 @@ import (
 
 // records splits CSV text (RFC 4180) into records of fields, without allocating per record.
 //
-// Fields of a line that holds no quote are slices of the read buffer, found with bytes.IndexByte
-// (vectorised natively, a plain loop in wasm); a line with a quote goes through a byte-by-byte
-// state machine that unescapes into a scratch buffer. The slices are valid until the next call.
+// Fields of a line that holds no quote are slices of the read buffer, found eight bytes at a time
+// (plainSWAR natively, its hand-written WebAssembly twin in wasm: records_wasm.go); a line with a
+// quote goes through a state machine that unescapes into a scratch buffer. The slices are valid
+// until the next call, and in wasm they must not be used after it (records_wasm.go says why).
 //
 // Beyond RFC 4180 it accepts LF as well as CRLF line ends, a UTF-8 byte-order mark, and a quote
 // inside an unquoted field (kept as written: exports write 28" wheels). It refuses a quoted field
@@ -27,9 +28,11 @@ type records struct {
 	eof   bool
 	err   error
 
-	line    int   // 1-based line where the next record starts
-	read    int64 // bytes consumed from r
-	fields  [][]byte
+	line    int      // 1-based line where the next record starts
+	read    int64    // bytes consumed from r
+	fields  [][]byte // the fields of a record without quotes
+	qfields [][]byte // the fields of a record with quotes (slices of scratch)
+	hdrs    []uint64 // in wasm, the splitter's fields (records_wasm.go)
 	scratch []byte
 	bounds  []int
 	recLine int // line where the current record started
@@ -168,9 +171,10 @@ func zeroBytes(v uint64) uint64 {
 	return ^((v&lows + lows) | v | lows)
 }
 
-// plain splits one record at the start of data if it has no quote, appending its fields to
-// rr.fields. It returns the bytes consumed (with the line end).
-func (rr *records) plain(data []byte) (int, scan) {
+// plainSWAR splits one record at the start of data if it has no quote, appending its fields to
+// rr.fields. It returns the bytes consumed (with the line end). It is plain natively; the wasm
+// build's plain (records_wasm.go) gives the same fields and is tested against it.
+func (rr *records) plainSWAR(data []byte) (int, scan) {
 	rr.fields = rr.fields[:0]
 	comma := rr.comma
 	cm, nl, qu := uint64(comma)*ones, uint64('\n')*ones, uint64('"')*ones
@@ -293,9 +297,9 @@ func (rr *records) quoted(data []byte) (fields [][]byte, n, lines int, err error
 			break
 		}
 	}
-	rr.fields = rr.fields[:0]
+	rr.qfields = rr.qfields[:0]
 	for k := 0; k < len(rr.bounds); k += 2 {
-		rr.fields = append(rr.fields, rr.scratch[rr.bounds[k]:rr.bounds[k+1]])
+		rr.qfields = append(rr.qfields, rr.scratch[rr.bounds[k]:rr.bounds[k+1]])
 	}
-	return rr.fields, i, lines, nil
+	return rr.qfields, i, lines, nil
 }

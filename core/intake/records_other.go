@@ -1,0 +1,5 @@
+//go:build !wasm
+
+package intake
+
+func (rr *records) plain(data []byte) (int, scan) { return rr.plainSWAR(data) }
