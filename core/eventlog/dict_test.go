@@ -11,10 +11,10 @@ import (
 )
 
 // TestDictAgainstMap checks the table against Go's map as the reference: ids in order of first
-// arrival, the same id for the same string, Lookup, Name and InternBatch agreeing. The keys are made to strain
-// the slot layout: every length from 0 to 40 and some past 255 (whose length the slot no longer
-// holds), keys that differ only after their 16th byte, keys that differ only by trailing zero
-// bytes ("a" and "a\x00"), and enough of them to grow the table many times.
+// arrival, the same id for the same string, Lookup, Name and InternBatch agreeing. The keys are
+// made to strain the slot layout: every length from 0 to 40 and some past 255 (whose length the
+// slot no longer holds), keys that differ only after their 16th byte, keys that differ only by
+// trailing zero bytes ("a" and "a\x00"), and enough of them to grow the table many times.
 func TestDictAgainstMap(t *testing.T) {
 	r := rand.New(rand.NewPCG(7, 8))
 	var keys []string

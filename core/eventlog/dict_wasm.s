@@ -1,9 +1,10 @@
 // The two passes of Dict.InternBatch in WebAssembly written by hand. Go's wasm code sends every
 // jump back to the head of a loop through a dispatch at the head of its function (it sets a
 // block number and branches to a br_table, as go build -gcflags=-S shows); these loops are plain
-// wasm loops over wasm locals, which the browser compiles to tight machine loops. They compute exactly what hash and intern
-// compute (dict_test.go and dict_wasm_test.go check it) and write no pointers, so they need no
-// write barriers; they make no calls and never grow the stack (NOSPLIT, no frame).
+// wasm loops over wasm locals, which the browser compiles to tight machine loops. They compute
+// exactly what hash and intern compute (dict_test.go and dict_wasm_test.go check it) and write
+// no pointers, so they need no write barriers; they make no calls and never grow the stack
+// (NOSPLIT, no frame). The caller has checked that hashes and out hold len(ends) entries.
 //
 // R0 to R15 are the function's 64-bit wasm locals; an address is a local wrapped to 32 bits.
 
