@@ -25,6 +25,10 @@
 	Get p; Get n; I64Add; I64Const $1; I64Sub; I32WrapI64; I64Load8U $0; \
 	Get n; I64Const $1; I64Sub; I64Const $3; I64Shl; I64Shl; I64Or
 
+// LAST8 leaves the last eight of the n bytes at p (n >= 8) on the stack, as a little-endian word.
+#define LAST8(p, n) \
+	Get p; Get n; I64Add; I64Const $8; I64Sub; I32WrapI64; I64Load $0
+
 // FOUND sets out[i] to the id in R14 (probeBatch).
 #define FOUND \
 	I64Load out_base+120(FP); Get R7; I64Const $2; I64Shl; I64Add; I32WrapI64; Get R14; I64Store32 $0
@@ -293,13 +297,7 @@ TEXT ·probeBatch(SB), NOSPLIT, $0-160
 				I64Const $8
 				I64GtU
 				If
-					Get R8
-					Get R9
-					I64Add
-					I64Const $8
-					I64Sub
-					I32WrapI64
-					I64Load $0
+					LAST8(R8, R9)
 					I64Const $16
 					Get R9
 					I64Sub
@@ -432,20 +430,8 @@ TEXT ·probeBatch(SB), NOSPLIT, $0-160
 					End // J
 					End // I
 					// the last eight bytes (n > 16, so they are inside both)
-					Get R15
-					Get R9
-					I64Add
-					I64Const $8
-					I64Sub
-					I32WrapI64
-					I64Load $0
-					Get R8
-					Get R9
-					I64Add
-					I64Const $8
-					I64Sub
-					I32WrapI64
-					I64Load $0
+					LAST8(R15, R9)
+					LAST8(R8, R9)
 					I64Eq
 					If // K
 						FOUND
